@@ -1,0 +1,504 @@
+"""The scenario: one absorber or stripper case, validated, in SI.
+
+A scenario is a TOML file with these tables (every physical value may carry a
+unit as text, "1200 kmol/h", "35 degC", "1.2 bar"; a bare number is in the SI
+unit given below):
+
+``[case]``          name, ``mode`` = "absorb" (treat a gas) or "strip" (treat a liquid)
+``[feed]``          the stream to treat: flow, temperature, pressure, molar mass,
+                    ``[feed.composition]`` solute mole fractions; for a liquid feed
+                    also density, viscosity, surface tension
+``[[spec]]``        one per solute: ``outlet`` (mole fraction or "20 ppmv"),
+                    ``removal`` (fraction removed) or ``outlet_mass_rate``
+``[[solvent]]``     (absorb) or ``[[stripping_gas]]`` (strip): the candidates,
+                    each with ``[...k]`` K-values per solute and its prices
+``[column]``        tray type, spacing, flood fraction, efficiency, material, limits
+``[economics]``     interest, life, hours, utility prices, cost index, factors, caps
+
+Units are converted here, once; ``models/`` never sees a unit string.
+``load_scenario`` raises ``ScenarioError`` with the file, the field and the
+value for anything it cannot accept.
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+import tomllib
+from pathlib import Path
+from typing import Annotated, Any, Literal
+
+from pydantic import (
+    BaseModel,
+    BeforeValidator,
+    ConfigDict,
+    Field,
+    ValidationError,
+    field_validator,
+    model_validator,
+)
+
+from optimizer.units import UnitError, dimension_of, to_si
+
+#: Molar gas constant [J/(mol K)], CODATA 2018 exact value.
+GAS_CONSTANT = 8.314462618
+
+HENRY_SCALES = (
+    "Hcp", "mol/(m^3*Pa)", "M/atm", "Hcc", "mol/(kg*Pa)", "Hbp", "mol/(kg*atm)",
+    "Hxp", "1/atm", "alpha", "bunsen coefficient", "KHpx", "atm", "m^3*Pa/mol",
+    "KHpc", "m^3*atm/mol", "KHcc", "SI",
+)
+
+
+class ScenarioError(ValueError):
+    """A scenario value that cannot be accepted; the message is one line for the user."""
+
+
+def _unit(unit: str):
+    """A pydantic pre-validator turning "number unit" text into the SI magnitude."""
+
+    def parse(value):
+        if value is None:
+            return None
+        try:
+            return to_si(value, unit)
+        except UnitError as exc:
+            raise ValueError(str(exc).replace("value: ", "")) from None
+
+    return BeforeValidator(parse)
+
+
+def _fraction_text(value):
+    """Mole fractions as numbers or text: "500 ppmv", "0.2 %"."""
+    if isinstance(value, str):
+        try:
+            return to_si(value, "dimensionless")
+        except UnitError as exc:
+            raise ValueError(str(exc).replace("value: ", "")) from None
+    return value
+
+
+Positive = Annotated[float, Field(gt=0, allow_inf_nan=False)]
+NonNegative = Annotated[float, Field(ge=0, allow_inf_nan=False)]
+MoleFraction = Annotated[float, BeforeValidator(_fraction_text), Field(ge=0, lt=1)]
+Temperature = Annotated[float, _unit("K"), Field(gt=0, allow_inf_nan=False)]
+Pressure = Annotated[float, _unit("Pa"), Field(gt=0, allow_inf_nan=False)]
+Length = Annotated[float, _unit("m"), Field(gt=0)]
+MolarMass = Annotated[float, _unit("kg/mol"), Field(gt=0, allow_inf_nan=False)]
+Density = Annotated[float, _unit("kg/m^3"), Field(gt=0, allow_inf_nan=False)]
+Viscosity = Annotated[float, _unit("Pa*s"), Field(gt=0, allow_inf_nan=False)]
+SurfaceTension = Annotated[float, _unit("N/m"), Field(gt=0, allow_inf_nan=False)]
+PricePerMass = Annotated[float, _unit("USD/kg"), Field(ge=0, allow_inf_nan=False)]
+PricePerVolume = Annotated[float, _unit("USD/m^3"), Field(ge=0, allow_inf_nan=False)]
+PricePerEnergy = Annotated[float, _unit("USD/J"), Field(ge=0, allow_inf_nan=False)]
+Money = Annotated[float, _unit("USD"), Field(gt=0)]
+Power = Annotated[float, _unit("W"), Field(gt=0)]
+MassFlow = Annotated[float, _unit("kg/s"), Field(gt=0)]
+MassRatio = Annotated[float, _unit("dimensionless"), Field(ge=0, allow_inf_nan=False)]
+Years = Annotated[float, _unit("year"), Field(gt=0, le=100)]
+HoursPerYear = Annotated[float, _unit("hour/year"), Field(gt=0, le=8784)]
+
+
+class _Table(BaseModel):
+    model_config = ConfigDict(extra="forbid", frozen=True)
+
+
+class Case(_Table):
+    name: str = Field(min_length=1)
+    mode: Literal["absorb", "strip"]
+    notes: str = ""
+
+
+class Feed(_Table):
+    """The stream to treat: a gas (absorb) or a liquid (strip)."""
+
+    flow: Annotated[float, _unit("mol/s"), Field(gt=0, allow_inf_nan=False)]  # [mol/s]; mass or volume flows converted first
+    temperature: Temperature  # [K]
+    pressure: Pressure  # [Pa] at the column
+    molar_mass: MolarMass  # [kg/mol] of the carrier (gas or liquid)
+    composition: dict[str, MoleFraction]
+    density: Density | None = None  # [kg/m3], liquid feed only
+    viscosity: Viscosity | None = None  # [Pa s], liquid feed only
+    surface_tension: SurfaceTension | None = None  # [N/m], liquid feed only
+
+    @model_validator(mode="before")
+    @classmethod
+    def _flow_to_molar(cls, data: Any):
+        """Accept a molar, mass or (liquid) volume flow; store mol/s."""
+        if not isinstance(data, dict) or "flow" not in data:
+            return data
+        raw = data["flow"]
+        dim = dimension_of(raw)
+        if dim is None or dim == "[substance] / [time]":
+            return data  # molar, a bare number, or text the field itself reports on
+        if dim == "[mass] / [time]":
+            molar_mass = to_si(data.get("molar_mass", float("nan")), "kg/mol", what="molar_mass")
+            value = to_si(raw, "kg/s") / molar_mass
+        elif dim == "[length] ** 3 / [time]":
+            if "density" not in data:
+                raise ValueError(f"a volume flow {raw!r} needs the feed density")
+            density = to_si(data["density"], "kg/m^3", what="density")
+            molar_mass = to_si(data.get("molar_mass", float("nan")), "kg/mol", what="molar_mass")
+            value = to_si(raw, "m^3/s") * density / molar_mass
+        else:
+            raise ValueError(f"flow {raw!r} must be a molar, mass or volume flow per time, got {dim}")
+        return {**data, "flow": value}
+
+    @field_validator("composition")
+    @classmethod
+    def _some_solute(cls, value: dict[str, float]):
+        if not value:
+            raise ValueError("list at least one solute with its mole fraction")
+        if sum(value.values()) >= 1:
+            raise ValueError("solute mole fractions must add up to less than 1")
+        return value
+
+
+class Spec(_Table):
+    """What the treated stream must meet for one solute: give exactly one of the three."""
+
+    solute: str
+    outlet: MoleFraction | None = None  # mole fraction in the treated stream
+    removal: Annotated[float, Field(gt=0, lt=1)] | None = None  # fraction of the entering solute removed
+    outlet_mass_rate: MassFlow | None = None  # [kg/s] of solute leaving in the treated stream
+    solute_molar_mass: MolarMass | None = None  # [kg/mol], needed with outlet_mass_rate
+
+    @model_validator(mode="after")
+    def _one_target(self):
+        given = [n for n in ("outlet", "removal", "outlet_mass_rate") if getattr(self, n) is not None]
+        if len(given) != 1:
+            raise ValueError(f"give exactly one of outlet, removal, outlet_mass_rate (got {', '.join(given) or 'none'})")
+        if self.outlet_mass_rate is not None and self.solute_molar_mass is None:
+            raise ValueError("outlet_mass_rate needs solute_molar_mass")
+        return self
+
+
+class Henry(_Table):
+    """A Henry's-law constant with its scale and temperature dependence."""
+
+    henry: Positive  # in the units of `scale` (the scales of chemicals.Henry_converter)
+    scale: str
+    temperature: Temperature = 298.15  # [K] at which `henry` is given
+    slope: float = 0.0  # [K] d ln H / d(1/T) of the solubility constant (Sander 2015 convention)
+
+    @field_validator("scale")
+    @classmethod
+    def _known_scale(cls, value: str):
+        if value not in HENRY_SCALES:
+            raise ValueError(f"scale must be one of {', '.join(HENRY_SCALES)}")
+        return value
+
+
+class VapourPressure(_Table):
+    """Modified Raoult's law: K = gamma_inf Psat / P."""
+
+    vapour_pressure: Pressure  # [Pa] of the pure solute at the column temperature
+    activity_coefficient: Positive = 1.0  # infinite-dilution value in this liquid
+
+
+KSource = Annotated[float, Field(gt=0, allow_inf_nan=False)] | Henry | VapourPressure
+
+
+class Agent(_Table):
+    """A candidate solvent (absorb) or stripping gas (strip)."""
+
+    name: str = Field(min_length=1)
+    molar_mass: MolarMass
+    k: dict[str, KSource]  # per solute: K = y/x at column conditions, or Henry / vapour-pressure data
+    density: Density | None = None  # [kg/m3], liquid solvents
+    viscosity: Viscosity | None = None  # [Pa s], liquid solvents
+    surface_tension: SurfaceTension | None = None  # [N/m], liquid solvents
+    price: PricePerMass = 0.0  # [USD/kg] of fresh agent
+    disposal: PricePerMass = 0.0  # [USD/kg] to dispose of or treat the spent agent
+    regenerated: bool = False  # True: circulated through a regenerator, only losses made up
+    loss: Annotated[float, Field(ge=0, le=1)] = 0.0  # fraction of the circulating agent lost per pass
+    lean: dict[str, MoleFraction] = {}  # solute mole fractions in the agent entering the column
+    regeneration_steam: MassRatio = 0.0  # [kg steam / kg agent circulated]
+    regeneration_cooling: MassRatio = 0.0  # [m3 cooling water / kg agent circulated]
+    efficiency: Annotated[float, Field(gt=0, le=1)] | None = None  # overall tray efficiency override
+
+    @model_validator(mode="after")
+    def _regeneration_consistent(self):
+        if not self.regenerated and (self.regeneration_steam or self.regeneration_cooling or self.loss):
+            raise ValueError("loss and regeneration_* apply only with regenerated = true")
+        return self
+
+
+class Murphree(_Table):
+    murphree: Annotated[float, Field(gt=0, le=1)]  # Murphree vapour efficiency per tray
+
+
+class Shell(_Table):
+    """An existing shell to reuse."""
+
+    diameter: Length  # [m] inside diameter
+    max_trays: Annotated[int, Field(ge=1)]
+
+
+class Column(_Table):
+    tray: Literal["sieve", "valve"] = "sieve"
+    tray_spacing: Length = 0.6096  # [m]; 24 in, common practice
+    flood_fraction: Annotated[float, Field(gt=0, le=1)] = 0.80
+    efficiency: Annotated[float, Field(gt=0, le=1)] | Literal["oconnell"] | Murphree = "oconnell"
+
+    @field_validator("efficiency", mode="before")
+    @classmethod
+    def _efficiency_word(cls, value):
+        if isinstance(value, str) and value != "oconnell":
+            raise ValueError("must be an overall efficiency in (0, 1], 'oconnell', or { murphree = 0.7 }")
+        return value
+    material: Literal["carbon_steel", "ss304", "ss316"] = "carbon_steel"
+    trays: tuple[Annotated[int, Field(ge=1)], Annotated[int, Field(ge=1)]] = (1, 80)
+    ratio: tuple[Annotated[float, Field(gt=1)], Annotated[float, Field(gt=1)]] = (1.05, 5.0)
+    ratio_levels: Annotated[int, Field(ge=2, le=2000)] = 50
+    max_height: Length = math.inf  # [m], tangent to tangent
+    max_diameter: Length = math.inf  # [m]
+    existing_shell: Shell | None = None
+    supply_pressure: Pressure = 101_325.0  # [Pa] the liquid is pumped from
+    max_dilute: Annotated[float, Field(gt=0, lt=1)] = 0.01  # solute mole fraction; common practice
+    max_flow_change: Annotated[float, Field(gt=0, lt=1)] = 0.05  # fractional; common practice
+
+    @model_validator(mode="after")
+    def _ranges(self):
+        if self.trays[0] > self.trays[1]:
+            raise ValueError(f"trays range {list(self.trays)} must be [low, high] with low <= high")
+        if self.ratio[0] >= self.ratio[1]:
+            raise ValueError(f"ratio range {list(self.ratio)} must be [low, high] with low < high")
+        return self
+
+
+class Economics(_Table):
+    interest: Annotated[float, Field(ge=0, le=1)] = 0.10  # per year
+    life: Years = 10.0  # [yr]
+    hours: HoursPerYear = 8000.0  # [h/yr] of operation
+    electricity: PricePerEnergy = 0.08 / 3.6e6  # [USD/J]; bare numbers are USD/J, write "0.08 USD/kWh"
+    steam: PricePerMass = 0.0  # [USD/kg]
+    cooling_water: PricePerVolume = 0.0  # [USD/m3]
+    cost_year: Annotated[int, Field(ge=1950, le=2100)] | None = None  # index year from models/data
+    cost_index: Positive | None = None  # an index value of your own, overrides cost_year
+    contingency: Annotated[float, Field(ge=0, le=1)] = 0.15
+    fee: Annotated[float, Field(ge=0, le=1)] = 0.03
+    auxiliary: Annotated[float, Field(ge=0, le=2)] = 0.50
+    pump_efficiency: Annotated[float, Field(gt=0, le=1)] = 0.70
+    blower_efficiency: Annotated[float, Field(gt=0, le=1)] = 0.70
+    motor_efficiency: Annotated[float, Field(gt=0, le=1)] = 0.90
+    credit: dict[str, PricePerMass] = {}  # [USD/kg] of solute recovered (regenerated agents only)
+    solute_molar_mass: dict[str, MolarMass] = {}  # [kg/mol], needed for credit
+    capital_budget: Money | None = None  # [USD] installed cost cap
+    max_power: Power | None = None  # [W] electric power cap
+    max_steam: MassFlow | None = None  # [kg/s] steam cap
+    margin: Annotated[float, Field(gt=0, lt=1)] = 0.03  # near-optimal band, fraction above best
+
+
+class Scenario(_Table):
+    case: Case
+    feed: Feed
+    spec: list[Spec] = Field(min_length=1)
+    solvent: list[Agent] = []
+    stripping_gas: list[Agent] = []
+    column: Column = Column()
+    economics: Economics = Economics()
+
+    @property
+    def agents(self) -> list[Agent]:
+        """The candidates: solvents when absorbing, stripping gases when stripping."""
+        return self.solvent if self.case.mode == "absorb" else self.stripping_gas
+
+    @property
+    def solutes(self) -> list[str]:
+        return list(self.feed.composition)
+
+    @property
+    def agent_word(self) -> str:
+        return "solvent" if self.case.mode == "absorb" else "stripping_gas"
+
+    @model_validator(mode="after")
+    def _consistent(self):
+        mode, word = self.case.mode, self.agent_word
+        other = "stripping_gas" if mode == "absorb" else "solvent"
+        if getattr(self, other):
+            raise ValueError(f"[[{other}]] does not apply with mode = {mode!r}; use [[{word}]]")
+        if not self.agents:
+            raise ValueError(f"mode = {mode!r} needs at least one [[{word}]]")
+        names = [a.name for a in self.agents]
+        if len(set(names)) != len(names):
+            raise ValueError(f"[[{word}]] names must be distinct, got {names}")
+        solutes = self.solutes
+        for spec in self.spec:
+            if spec.solute not in solutes:
+                raise ValueError(f"[[spec]] solute {spec.solute!r} is not in [feed.composition] ({', '.join(solutes)})")
+        if len({s.solute for s in self.spec}) != len(self.spec):
+            raise ValueError("[[spec]]: one entry per solute")
+        for agent in self.agents:
+            for solute in solutes:
+                if solute not in agent.k:
+                    raise ValueError(f"[[{word}]] {agent.name!r}: no K data for solute {solute!r} in [{word}.k]")
+            for solute in list(agent.k) + list(agent.lean):
+                if solute not in solutes:
+                    raise ValueError(f"[[{word}]] {agent.name!r}: solute {solute!r} is not in [feed.composition]")
+            if mode == "absorb":
+                for field in ("density", "viscosity", "surface_tension"):
+                    if getattr(agent, field) is None:
+                        raise ValueError(f"[[solvent]] {agent.name!r}: {field} is required for a liquid solvent")
+        if mode == "strip":
+            for field in ("density", "viscosity", "surface_tension"):
+                if getattr(self.feed, field) is None:
+                    raise ValueError(f"[feed] {field} is required for a liquid feed (mode = 'strip')")
+        for solute in self.economics.credit:
+            if solute not in self.economics.solute_molar_mass:
+                raise ValueError(f"[economics] credit for {solute!r} needs solute_molar_mass.{solute}")
+        return self
+
+
+_MISSING = object()
+
+
+def _user_path(data: Any, loc: tuple) -> tuple[tuple, bool]:
+    """The part of a pydantic location that names keys the user wrote.
+
+    Pydantic adds tags for union members ("Henry", "constrained-float") that
+    are not keys of the file; they are dropped. Returns the path and whether
+    all of it exists in the file (a missing key keeps its name at the end).
+    """
+    node, path = data, []
+    for i, key in enumerate(loc):
+        if isinstance(node, dict) and key in node:
+            node = node[key]
+            path.append(key)
+        elif isinstance(node, list) and isinstance(key, int) and 0 <= key < len(node):
+            node = node[key]
+            path.append(key)
+        elif i == len(loc) - 1 and isinstance(key, str) and isinstance(node, dict):
+            path.append(key)
+            return tuple(path), False
+    return tuple(path), True
+
+
+def _raw_at(data: Any, path: tuple) -> Any:
+    node = data
+    for key in path:
+        try:
+            node = node[key]
+        except (KeyError, IndexError, TypeError):
+            return _MISSING
+    return node
+
+
+def _location(data: Any, path: tuple) -> str:
+    """A key path as the user sees it: [feed] flow, [[solvent]] 'oil' k.toluene."""
+    if not path:
+        return ""
+    head, rest = path[0], list(path[1:])
+    if rest and isinstance(rest[0], int):
+        item = _raw_at(data, (head, rest[0]))
+        name = (item.get("name") or item.get("solute")) if isinstance(item, dict) else None
+        label = f"[[{head}]] {name!r}" if name else f"[[{head}]] #{rest[0] + 1}"
+        rest = rest[1:]
+    else:
+        label = f"[{head}]"
+    tail = ".".join(str(k) for k in rest)
+    return f"{label} {tail}".strip()
+
+
+def _models_in(annotation) -> list[type[BaseModel]]:
+    """The BaseModel classes inside an annotation such as list[Agent] or Henry | float."""
+    if isinstance(annotation, type) and issubclass(annotation, BaseModel):
+        return [annotation]
+    found: list[type[BaseModel]] = []
+    for arg in getattr(annotation, "__args__", ()) or ():
+        found += _models_in(arg)
+    return found
+
+
+def _known_keys(path: tuple) -> list[str]:
+    """The keys allowed beside the unknown key at the end of ``path``."""
+    models: list[type[BaseModel]] = [Scenario]
+    for key in path[:-1]:
+        if isinstance(key, int):
+            continue
+        nxt: list[type[BaseModel]] = []
+        for model in models:
+            field = model.model_fields.get(key)
+            if field is not None:
+                nxt += _models_in(field.annotation)
+            elif model.model_fields == {} or key not in model.model_fields:
+                # a dict of models (k.<solute>): the value's models apply
+                for f in model.model_fields.values():
+                    if getattr(f.annotation, "__origin__", None) is dict:
+                        nxt += _models_in(f.annotation.__args__[1])
+        models = nxt or models
+    keys: list[str] = []
+    for model in models:
+        keys += [k for k in model.model_fields if k not in keys]
+    return keys
+
+
+def _one_line(path: str, error: dict, data: Any) -> str:
+    """One pydantic error as one line: file, field, what is wrong, the value written."""
+    keys, exists = _user_path(data, tuple(error["loc"]))
+    where = _location(data, keys)
+    prefix = f"{path}, {where}" if where else path
+    kind = error["type"]
+    if kind == "extra_forbidden":
+        key = str(keys[-1])
+        known = _known_keys(keys)
+        near = difflib.get_close_matches(key, known, n=1)
+        hint = f"; did you mean {near[0]!r}?" if near else (f"; allowed: {', '.join(known)}" if known else "")
+        return f"{prefix}: unknown key{hint}"
+    if kind == "missing" or not exists:
+        return f"{prefix}: required value is missing"
+    raw = _raw_at(data, keys)
+    message = error["msg"].removeprefix("Value error, ")
+    shown = "" if raw is _MISSING or isinstance(raw, (dict, list)) or f"{raw!r}" in message else f", got {raw!r}"
+    return f"{prefix}: {message}{shown}"
+
+
+def _relevance(error: dict, data: Any) -> tuple:
+    """Rank errors: about a value the user wrote, deepest first; unknown keys next; missing last."""
+    keys, exists = _user_path(data, tuple(error["loc"]))
+    kind = {"extra_forbidden": 1.0, "missing": 0.0}.get(error["type"], 2.0)
+    if error["type"] == "extra_forbidden" and keys and keys[-1] in _known_keys(keys):
+        kind = 0.5  # a key that another form of the same value allows
+    return (exists, len(keys) if exists else 0, kind)
+
+
+def parse_scenario(data: dict, path: str = "scenario") -> Scenario:
+    """Validate a scenario already read into a dict; raise ScenarioError with one line."""
+    try:
+        return Scenario.model_validate(data)
+    except ValidationError as exc:
+        # One line: the most telling error (a union reports one per member).
+        best = max(exc.errors(), key=lambda e: _relevance(e, data))
+        raise ScenarioError(_one_line(path, best, data)) from None
+
+
+def load_scenario(path: str | Path) -> Scenario:
+    """Read and validate a scenario file.
+
+    Raises
+    ------
+    ScenarioError
+        The file is missing, is not TOML, or holds a value that cannot be
+        accepted; the message names the file, the field and the value.
+    """
+    path = Path(path)
+    try:
+        text = path.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ScenarioError(f"{path}: no such file") from None
+    except OSError as exc:
+        raise ScenarioError(f"{path}: cannot be read ({exc.strerror})") from None
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise ScenarioError(f"{path}: not valid TOML ({exc})") from None
+    return parse_scenario(data, str(path))
+
+
+def gas_density(pressure, temperature, molar_mass):
+    """Ideal-gas density rho = P M / (R T) [kg/m3] from P [Pa], T [K], M [kg/mol].
+
+    >>> round(gas_density(101325.0, 273.15, 0.0289647), 4)
+    1.2922
+    """
+    return pressure * molar_mass / (GAS_CONSTANT * temperature)
