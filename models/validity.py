@@ -40,7 +40,7 @@ def check_range(
     Examples
     --------
     >>> w = []
-    >>> check_range("tray area", [0.05, 2.0], 0.07, 12.3, "m2", "sieve tray cost", w)
+    >>> check_range("tray area", 0.05, 0.07, 12.3, "m2", "sieve tray cost", w)
     >>> w
     ['tray area 0.05 m2 is outside 0.07 to 12.3 m2 for sieve tray cost; the value is extrapolated']
     """

@@ -255,6 +255,7 @@ class Column(_Table):
     max_diameter: Length = math.inf  # [m]
     existing_shell: Shell | None = None
     supply_pressure: Pressure = 101_325.0  # [Pa] the liquid is pumped from
+    larger_diameters: Annotated[int, Field(ge=0, le=10)] = 2  # standard sizes above the least also tried
     max_dilute: Annotated[float, Field(gt=0, lt=1)] = 0.01  # solute mole fraction; common practice
     max_flow_change: Annotated[float, Field(gt=0, lt=1)] = 0.05  # fractional; common practice
 

@@ -1,0 +1,564 @@
+r"""Purchased and bare-module cost of column equipment, cost-index escalation.
+
+All correlations are the module-costing method of Turton et al., *Analysis,
+Synthesis and Design of Chemical Processes*, 4th ed. (2012), Appendix A and
+Chapter 7. Coefficients live in ``models/data/equipment_cost.toml``; cost
+indices in ``models/data/cost_index.csv``. Every cost here is in USD at the
+item's ``index_basis`` (CEPCI 397 for Turton's tables) unless it has passed
+through :func:`escalate`.
+
+Item keys and their size parameter:
+
+==========================  ==================================  ========
+key                         size                                unit
+==========================  ==================================  ========
+vessel_vertical             shell volume                        m3
+tray_sieve, tray_valve      tower cross-sectional area          m2
+pump_centrifugal            shaft power                         kW
+heat_exchanger_fixed_tube   heat-transfer area                  m2
+blower_centrifugal          inlet (actual) gas flow             m3/s
+drive_electric_enclosed     shaft power                         kW
+==========================  ==================================  ========
+
+Sizes are the one place where the units are not base SI: the correlations
+were fitted in these units, and the table says so beside each one.
+"""
+
+from __future__ import annotations
+
+import copy
+import csv
+import functools
+import tomllib
+from pathlib import Path
+from typing import NamedTuple
+
+import numpy as np
+
+from models.validity import check_range
+
+_DATA = Path(__file__).resolve().parent / "data"
+_COST_TABLE = _DATA / "equipment_cost.toml"
+_INDEX_TABLE = _DATA / "cost_index.csv"
+
+_PA_PER_BAR = 1.0e5
+_PA_PER_KPA = 1.0e3
+
+
+# --------------------------------------------------------------------------- data
+
+
+@functools.lru_cache(maxsize=1)
+def _cost_table() -> dict:
+    with _COST_TABLE.open("rb") as handle:
+        return tomllib.load(handle)
+
+
+def load_cost_table() -> dict:
+    """Equipment cost table as plain dicts, one entry per item key.
+
+    The file is parsed once and cached; each call returns a fresh deep copy,
+    so a caller may change what it gets without touching the cache.
+
+    Returns
+    -------
+    dict
+        ``{item: {"k1": ..., "k2": ..., "k3": ..., "size": ..., "size_unit": ...,
+        "valid": [low, high], "index_basis": ..., "source": ..., ...}}``.
+
+    Examples
+    --------
+    >>> table = load_cost_table()
+    >>> table["vessel_vertical"]["size_unit"], table["vessel_vertical"]["index_basis"]
+    ('m3', 397.0)
+    """
+    return copy.deepcopy(_cost_table())
+
+
+@functools.lru_cache(maxsize=1)
+def _index_table() -> tuple[np.ndarray, np.ndarray]:
+    with _INDEX_TABLE.open(newline="") as handle:
+        rows = list(csv.DictReader(handle))
+    years = np.array([int(row["year"]) for row in rows])
+    values = np.array([float(row["index"]) for row in rows])
+    order = np.argsort(years)
+    return years[order], values[order]
+
+
+def cost_index(year):
+    """Chemical Engineering Plant Cost Index (CEPCI), annual average, for ``year``.
+
+    Parameters
+    ----------
+    year : int or array_like of int
+        Calendar year(s); each must be a row of ``models/data/cost_index.csv``.
+
+    Returns
+    -------
+    float or ndarray
+        CEPCI [-] (1957-59 = 100).
+
+    Raises
+    ------
+    ValueError
+        If a year is not in the table; the message gives the years covered.
+
+    Notes
+    -----
+    Source: Chemical Engineering magazine, annual CEPCI averages; every row of
+    the CSV says whether it was recalled or cross-checked. Turton's Appendix A
+    costs are at 397 (September 2001), not at the 2001 average 394.3.
+
+    Examples
+    --------
+    >>> float(cost_index(2001))
+    394.3
+    """
+    years, values = _index_table()
+    wanted = np.asarray(year)
+    if not np.issubdtype(wanted.dtype, np.number) or np.any(wanted != np.round(wanted)):
+        raise ValueError(f"cost index year must be a whole number, got {year!r}")
+    wanted = wanted.astype(int)
+    position = np.clip(np.searchsorted(years, wanted), 0, years.size - 1)
+    found = years[position] == wanted
+    if not np.all(found):
+        missing = sorted({int(y) for y in np.atleast_1d(wanted[~found])})
+        raise ValueError(
+            f"no cost index for year {', '.join(map(str, missing))}; "
+            f"the table covers {years[0]} to {years[-1]} (models/data/cost_index.csv)"
+        )
+    result = values[position]
+    return float(result) if result.ndim == 0 else result
+
+
+def latest_cost_year() -> int:
+    """The most recent year in ``models/data/cost_index.csv``.
+
+    >>> latest_cost_year() >= 2024
+    True
+    """
+    years, _ = _index_table()
+    return int(years[-1])
+
+
+def _item(item: str) -> dict:
+    table = _cost_table()
+    if item not in table:
+        raise ValueError(f"unknown cost item {item!r}; known items: {', '.join(sorted(table))}")
+    return table[item]
+
+
+# --------------------------------------------------------------------------- purchased cost
+
+
+def purchased_cost(item: str, size, *, warnings: list[str] | None = None):
+    r"""Purchased cost of one item in base material at ambient pressure.
+
+    Turton's three-coefficient fit:
+
+        log10 Cp0 = K1 + K2 log10(A) + K3 (log10 A)^2
+
+    Parameters
+    ----------
+    item : str
+        Key in ``equipment_cost.toml`` (see the module docstring).
+    size : array_like
+        Size parameter A in the item's ``size_unit`` (m3, m2, kW or m3/s,
+        see the table), > 0.
+    warnings : list of str, optional
+        Receives a message if any size lies outside the fitted range.
+
+    Returns
+    -------
+    ndarray
+        Cp0 [USD] at the item's ``index_basis`` (CEPCI 397).
+
+    Notes
+    -----
+    Valid within the item's ``valid`` range; outside it the curve is
+    extrapolated (the quadratic in log A then grows fast) and a warning is
+    appended.
+
+    Source: Turton et al., Analysis, Synthesis and Design of Chemical
+    Processes, 4th ed., Appendix A, Eq. (A.1) and Table A.1 (equation number
+    from memory).
+
+    Examples
+    --------
+    >>> round(float(purchased_cost("vessel_vertical", 1.0)))
+    3143
+    """
+    row = _item(item)
+    area = np.asarray(size, dtype=float)
+    if np.any(~(area > 0.0)):
+        raise ValueError(f"{row['size']} for {item} must be > 0 {row['size_unit']}, got {size!r}")
+    low, high = row["valid"]
+    check_range(row["size"], area, low, high, row["size_unit"], f"{item} purchased cost (Turton Table A.1)", warnings)
+    log_size = np.log10(area)
+    return 10.0 ** (row["k1"] + row["k2"] * log_size + row["k3"] * log_size**2)
+
+
+# --------------------------------------------------------------------------- factors
+
+
+def vessel_pressure_factor(pressure_gauge, diameter):
+    r"""Pressure factor of a carbon-steel process vessel or tower shell.
+
+    From the wall thickness needed for the pressure relative to the minimum
+    wall, with P in barg and D in m:
+
+        F_P = ((P + 1) D / (2 [850 - 0.6 (P + 1)]) + 0.00315) / 0.0063
+
+    clipped below at 1 (the minimum-thickness wall already holds the
+    pressure), and F_P = 1.25 for vacuum service, P < -0.5 barg.
+
+    Parameters
+    ----------
+    pressure_gauge : array_like
+        Operating pressure [Pa gauge], > -1e5.
+    diameter : array_like
+        Vessel inside diameter [m], > 0.
+
+    Returns
+    -------
+    ndarray
+        F_P [-], >= 1.
+
+    Notes
+    -----
+    Built on an allowable stress of 944 bar, weld efficiency 0.9, corrosion
+    allowance 3.15 mm and minimum wall 6.3 mm. The denominator vanishes near
+    1400 barg, far outside any absorber; such pressures are rejected.
+
+    Source: Turton et al., Analysis, Synthesis and Design of Chemical
+    Processes, 4th ed., Appendix A, Eq. (A.2) (equation number from memory).
+
+    Examples
+    --------
+    >>> float(vessel_pressure_factor(0.0, 1.5))
+    1.0
+    >>> round(float(vessel_pressure_factor(20e5, 2.0)), 4)
+    4.4806
+    """
+    barg = np.asarray(pressure_gauge, dtype=float) / _PA_PER_BAR
+    diameter = np.asarray(diameter, dtype=float)
+    if np.any(~(diameter > 0.0)):
+        raise ValueError(f"vessel diameter must be > 0 m, got {diameter!r}")
+    if np.any(barg <= -1.0):
+        raise ValueError("vessel gauge pressure must be above -1 bar (absolute pressure > 0)")
+    denominator = 2.0 * (850.0 - 0.6 * (barg + 1.0))
+    if np.any(denominator <= 0.0):
+        raise ValueError("vessel gauge pressure is beyond about 1400 barg, where the thickness relation fails")
+    factor = ((barg + 1.0) * diameter / denominator + 0.00315) / 0.0063
+    factor = np.maximum(factor, 1.0)
+    return np.where(barg < -0.5, 1.25, factor)
+
+
+def pressure_factor(item: str, pressure_gauge, *, warnings: list[str] | None = None):
+    r"""Pressure factor of a pump, exchanger or blower from Turton's C1..C3.
+
+        log10 F_P = C1 + C2 log10(P) + C3 (log10 P)^2,    P >= low
+        F_P = 1,                                          P <  low
+
+    Parameters
+    ----------
+    item : str
+        An item with a ``[item.pressure]`` table.
+    pressure_gauge : array_like
+        For pumps and exchangers the operating pressure [Pa gauge]; for
+        ``blower_centrifugal`` the pressure rise across the machine [Pa]
+        (the table's ``variable`` says which).
+    warnings : list of str, optional
+        Receives a message if a pressure is above the fitted range.
+
+    Returns
+    -------
+    ndarray
+        F_P [-].
+
+    Notes
+    -----
+    The table's ``unit`` (barg or kPa) is applied inside; the caller passes Pa.
+
+    Source: Turton et al., Analysis, Synthesis and Design of Chemical
+    Processes, 4th ed., Appendix A, Eq. (A.3) and Table A.2 (equation
+    number from memory).
+
+    Examples
+    --------
+    >>> float(pressure_factor("pump_centrifugal", 5e5))
+    1.0
+    >>> round(float(pressure_factor("pump_centrifugal", 50e5)), 3)
+    1.872
+    """
+    row = _item(item)
+    if "pressure" not in row:
+        raise ValueError(f"{item} has no pressure-factor table; vessels use vessel_pressure_factor")
+    table = row["pressure"]
+    scale = _PA_PER_BAR if table["unit"] == "barg" else _PA_PER_KPA
+    pressure = np.asarray(pressure_gauge, dtype=float) / scale
+    what = "pressure rise" if table["variable"] == "rise" else "gauge pressure"
+    check_range(what, np.maximum(pressure, table["low"]), table["low"], table["high"], table["unit"],
+                f"{item} pressure factor (Turton Table A.2)", warnings)
+    inside = pressure >= table["low"]
+    log_p = np.log10(np.where(inside, pressure, table["low"]))
+    factor = 10.0 ** (table["c1"] + table["c2"] * log_p + table["c3"] * log_p**2)
+    return np.where(inside, factor, 1.0)
+
+
+def material_factor(item: str, material: str) -> float:
+    """Material factor of an item: F_M for B1/B2 items, F_BM for the others.
+
+    Parameters
+    ----------
+    item : str
+        Key in ``equipment_cost.toml``.
+    material : str
+        One of the item's materials, e.g. ``carbon_steel``, ``ss304``, ``ss316``
+        (pumps also ``cast_iron``; vessels ``ss_clad``; exchangers
+        ``cs_shell_ss_tube``).
+
+    Returns
+    -------
+    float
+        F_M [-] when the item's ``bare_module_form`` is ``b1_b2``, otherwise
+        the bare-module factor F_BM [-] for that material.
+
+    Raises
+    ------
+    ValueError
+        If the material is not listed for the item; the message lists those that are.
+
+    Notes
+    -----
+    Source: Turton et al., 4th ed., Appendix A, Table A.3 / Figure A.18 (F_M)
+    and Table A.6 / Figure A.19 (F_BM); each row of the TOML says how it was
+    obtained. Turton has one stainless-steel row, so ss304 and ss316 are equal.
+
+    Examples
+    --------
+    >>> material_factor("vessel_vertical", "ss316")
+    3.12
+    """
+    row = _item(item)
+    materials = {k: v for k, v in row["material"].items() if k != "source"}
+    if material not in materials:
+        raise ValueError(
+            f"material {material!r} is not priced for {item}; allowed: {', '.join(materials)}"
+        )
+    return float(materials[material])
+
+
+def tray_quantity_factor(trays):
+    r"""Quantity factor for buying fewer than 20 trays.
+
+        log10 F_q = 0.4771 + 0.08516 log10 N - 0.3473 (log10 N)^2,   N < 20
+        F_q = 1,                                                      N >= 20
+
+    Parameters
+    ----------
+    trays : array_like
+        Number of trays N [-], >= 1 (need not be whole).
+
+    Returns
+    -------
+    ndarray
+        F_q [-]: about 3 for one tray, falling to 1 at 20 trays.
+
+    Notes
+    -----
+    The fit is not monotone below two trays: it peaks at N = 1.33 (F_q = 3.04).
+    N F_q, the effective count priced, rises with N everywhere.
+
+    Source: Turton et al., Analysis, Synthesis and Design of Chemical
+    Processes, 4th ed., Appendix A, Eq. (A.6) (equation number from memory).
+
+    Examples
+    --------
+    >>> round(float(tray_quantity_factor(1)), 3)
+    3.0
+    >>> float(tray_quantity_factor(25))
+    1.0
+    """
+    count = np.asarray(trays, dtype=float)
+    if np.any(~(count >= 1.0)):
+        raise ValueError(f"number of trays must be >= 1, got {trays!r}")
+    log_n = np.log10(np.minimum(count, 20.0))
+    factor = 10.0 ** (0.4771 + 0.08516 * log_n - 0.3473 * log_n**2)
+    return np.where(count < 20.0, factor, 1.0)
+
+
+# --------------------------------------------------------------------------- bare module
+
+
+def bare_module_cost(
+    item: str,
+    size,
+    *,
+    material: str = "carbon_steel",
+    pressure_gauge=0.0,
+    diameter=None,
+    trays=None,
+    warnings: list[str] | None = None,
+):
+    r"""Bare-module cost (direct plus indirect) of one item at its basis index.
+
+    By the item's ``bare_module_form``:
+
+    * ``b1_b2`` (vessels, pumps, exchangers):  C_BM = Cp0 (B1 + B2 F_M F_P)
+    * ``tray``  (sieve, valve trays):          C_BM = Cp0 N F_BM F_q
+    * ``fbm_fp`` (blower):                     C_BM = Cp0 F_BM F_P
+    * ``fbm``   (motor drive):                 C_BM = Cp0 F_BM
+
+    Parameters
+    ----------
+    item : str
+        Key in ``equipment_cost.toml``.
+    size : array_like
+        Size parameter in the item's ``size_unit`` (tower cross-section [m2]
+        for trays).
+    material : str
+        Material key, see :func:`material_factor`.
+    pressure_gauge : array_like
+        Operating pressure [Pa gauge] (for the blower: pressure rise [Pa]).
+    diameter : array_like, optional
+        Vessel diameter [m]; required for vessels.
+    trays : array_like, optional
+        Number of trays N [-]; required for trays.
+    warnings : list of str, optional
+        Receives out-of-range messages.
+
+    Returns
+    -------
+    ndarray
+        C_BM [USD] at the item's ``index_basis`` (CEPCI 397); broadcast over
+        all array arguments.
+
+    Notes
+    -----
+    Source: Turton et al., Analysis, Synthesis and Design of Chemical
+    Processes, 4th ed., Appendix A, Eqs. (A.4) and (A.5), Tables A.4 and A.6
+    (equation numbers from memory).
+
+    Examples
+    --------
+    >>> round(float(bare_module_cost("vessel_vertical", 1.0, diameter=1.0)))
+    12794
+    >>> round(float(bare_module_cost("tray_sieve", 1.0, trays=20)))
+    19767
+    """
+    row = _item(item)
+    form = row["bare_module_form"]
+    base = purchased_cost(item, size, warnings=warnings)
+    factor_m = material_factor(item, material)
+    if form == "b1_b2":
+        if row.get("pressure_model") == "vessel":
+            if diameter is None:
+                raise ValueError(f"{item} needs the vessel diameter [m] for its pressure factor")
+            factor_p = vessel_pressure_factor(pressure_gauge, diameter)
+        else:
+            factor_p = pressure_factor(item, pressure_gauge, warnings=warnings)
+        return base * (row["b1"] + row["b2"] * factor_m * factor_p)
+    if form == "tray":
+        if trays is None:
+            raise ValueError(f"{item} needs the number of trays")
+        count = np.asarray(trays, dtype=float)
+        return base * count * factor_m * tray_quantity_factor(count)
+    if form == "fbm_fp":
+        return base * factor_m * pressure_factor(item, pressure_gauge, warnings=warnings)
+    if form == "fbm":
+        return base * factor_m
+    raise ValueError(f"{item} has an unknown bare_module_form {form!r} in equipment_cost.toml")
+
+
+# --------------------------------------------------------------------------- escalation, installed cost
+
+
+def escalate(cost, index_from, index_to):
+    r"""Move a cost between cost-index dates.
+
+        C_to = C_from I_to / I_from
+
+    Parameters
+    ----------
+    cost : array_like
+        Cost at ``index_from`` [USD].
+    index_from, index_to : array_like
+        Cost indices [-] of the source date and the target date, > 0.
+
+    Returns
+    -------
+    ndarray
+        Cost at ``index_to`` [USD].
+
+    Notes
+    -----
+    Source: Turton et al., Analysis, Synthesis and Design of Chemical
+    Processes, 4th ed., Section 7.2, Eq. (7.4) (equation number from memory).
+
+    Examples
+    --------
+    >>> round(float(escalate(10000.0, 397.0, 607.5)), 2)
+    15302.27
+    """
+    index_from = np.asarray(index_from, dtype=float)
+    index_to = np.asarray(index_to, dtype=float)
+    if np.any(~(index_from > 0.0)) or np.any(~(index_to > 0.0)):
+        raise ValueError("cost indices must be > 0")
+    return np.asarray(cost, dtype=float) * (index_to / index_from)
+
+
+class InstalledCost(NamedTuple):
+    """Total module and grassroots cost [USD]."""
+
+    total_module: np.ndarray
+    grassroots: np.ndarray
+
+
+def installed_cost(
+    bare_module_total,
+    *,
+    contingency: float = 0.15,
+    fee: float = 0.03,
+    auxiliary: float = 0.50,
+    bare_module_base=None,
+) -> InstalledCost:
+    r"""Total module and grassroots capital from the summed bare-module cost.
+
+        C_TM = (1 + contingency + fee) sum C_BM        (= 1.18 sum C_BM)
+        C_GR = C_TM + auxiliary sum C_BM0              (auxiliary facilities 0.50)
+
+    Parameters
+    ----------
+    bare_module_total : array_like
+        Sum of bare-module costs at the actual materials and pressures [USD].
+    contingency, fee : float
+        Contingency and contractor fee as fractions of C_BM [-].
+    auxiliary : float
+        Auxiliary facilities as a fraction of the base-case C_BM0 [-].
+    bare_module_base : array_like, optional
+        Sum of bare-module costs in carbon steel at ambient pressure, C_BM0
+        [USD]; if omitted ``bare_module_total`` is used, which overstates C_GR
+        when alloys or pressure raise C_BM.
+
+    Returns
+    -------
+    InstalledCost
+        ``(total_module, grassroots)`` [USD].
+
+    Notes
+    -----
+    Source: Turton et al., Analysis, Synthesis and Design of Chemical
+    Processes, 4th ed., Section 7.3, Eq. (7.10) for C_TM and Eq. (7.11) for
+    C_GR (equation numbers from memory).
+
+    Examples
+    --------
+    >>> cost = installed_cost(100000.0, bare_module_base=80000.0)
+    >>> round(float(cost.total_module)), round(float(cost.grassroots))
+    (118000, 158000)
+    """
+    total = np.asarray(bare_module_total, dtype=float)
+    base = total if bare_module_base is None else np.asarray(bare_module_base, dtype=float)
+    total_module = (1.0 + contingency + fee) * total
+    return InstalledCost(total_module, total_module + auxiliary * base)
