@@ -61,6 +61,7 @@ class Case:
     are shown.
     """
 
+    name: str                       # the case name from the scenario
     mode: str                       # "absorb" or "strip"
     agents: tuple[str, ...]
     solutes: tuple[str, ...]
@@ -222,7 +223,7 @@ def prepare(scenario: Scenario) -> Case:
 
     shell = col.existing_shell
     return Case(
-        mode=mode, agents=tuple(a.name for a in agents), solutes=tuple(solutes),
+        name=scenario.case.name, mode=mode, agents=tuple(a.name for a in agents), solutes=tuple(solutes),
         feed_flow=feed.flow, temperature=feed.temperature, pressure=feed.pressure,
         feed_in=np.array([feed.composition[s] for s in solutes]), target=_targets(scenario),
         k_value=k_value, lean=lean, efficiency=eff, murphree=murphree,
@@ -534,10 +535,7 @@ def evaluate(case: Case, agent, trays, rate, diameter=None) -> Designs:
     charge = case.capital_recovery * capital.grassroots
     annualized = economics.annualized_cost(capital.grassroots, case.capital_recovery, operating, credit)
 
-    within = limits_met(case, trays, height, diameter, size.fraction_of_flood_at_standard_diameter,
-                        ratio, capital.grassroots, electric, steam_rate)
-
-    return Designs(
+    designs = Designs(
         agent=agent, trays=trays.astype(int), rate=rate, rate_min=rate_min, ratio=ratio,
         factor=factor, stages=stages, outlet=out, agent_outlet=agent_out, meets_spec=meets,
         liquid_flow=liquid, gas_flow=gas, liquid_mass_flow=liquid_mass, gas_mass_flow=gas_mass,
@@ -556,24 +554,58 @@ def evaluate(case: Case, agent, trays, rate, diameter=None) -> Designs:
         total_module=capital.total_module, installed=capital.grassroots,
         cost_electricity=cost_electricity, cost_agent=cost_agent, cost_disposal=cost_disposal,
         cost_steam=cost_steam, cost_cooling=cost_cooling, operating=operating, credit=credit,
-        capital_charge=charge, annualized=annualized, within_limits=within, warnings=notes,
+        capital_charge=charge, annualized=annualized, within_limits=np.ones(rate.shape, bool), warnings=notes,
     )
+    designs.within_limits = limits_met(case, designs)
+    return designs
 
 
-def limits_met(case: Case, trays, height, diameter, flood, ratio, installed, electric, steam_rate):
-    """Every limit of the scenario, point by point (the model states each as a constraint)."""
+@dataclass(frozen=True)
+class Limit:
+    """One limit of the scenario, stated point by point as ``values <= bound``.
+
+    The scan applies it with numpy and the model states it as one
+    constraint ``sum_d pick[d] values[d] <= bound``: one place for each.
+    """
+
+    name: str             # short key, used as the constraint name
+    label: str            # what the user set, in words
+    values: np.ndarray    # one per design point
+    bound: float
+
+
+def limit_table(case: Case, d) -> list[Limit]:
+    """Every limit the scenario sets, over the design points ``d`` (a Designs)."""
     lo, hi = case.ratio_range
-    ok = (height <= case.max_height) & (diameter <= case.max_diameter)
-    ok &= (ratio >= lo * (1 - 1e-12)) & (ratio <= hi * (1 + 1e-12))
-    ok &= flood <= case.flood_fraction * (1 + 1e-9)
-    if case.shell_max_trays is not None:
-        ok &= trays <= case.shell_max_trays
-    if case.capital_budget is not None:
-        ok &= installed <= case.capital_budget
-    if case.max_power is not None:
-        ok &= electric <= case.max_power
-    if case.max_steam is not None:
-        ok &= steam_rate <= case.max_steam
+    word = "L/Lmin" if case.mode == "absorb" else "G/Gmin"
+    table = []
+    for s, solute in enumerate(case.solutes):
+        if np.isfinite(case.target[s]):
+            table.append(Limit(f"spec_{s}", f"{solute} outlet spec", d.outlet[:, s],
+                               float(case.target[s] * (1 + 1e-9))))
+    table.append(Limit("ratio_low", f"{word} at least {lo:g}", -d.ratio, -lo * (1 - 1e-12)))
+    table.append(Limit("ratio_high", f"{word} at most {hi:g}", d.ratio, hi * (1 + 1e-12)))
+    table.append(Limit("flood", f"fraction of flood at most {case.flood_fraction:g}",
+                       d.fraction_of_flood, case.flood_fraction * (1 + 1e-9)))
+    optional = [
+        ("max_height", "height", d.height, case.max_height, "m"),
+        ("max_diameter", "diameter", d.diameter, case.max_diameter, "m"),
+        ("shell_trays", "trays in the existing shell", d.trays.astype(float), case.shell_max_trays, ""),
+        ("capital_budget", "installed cost", d.installed, case.capital_budget, "USD"),
+        ("max_power", "electric power", d.electric_power, case.max_power, "W"),
+        ("max_steam", "steam", d.steam_rate, case.max_steam, "kg/s"),
+    ]
+    for name, what, values, bound, unit in optional:
+        if bound is not None and np.isfinite(bound):
+            table.append(Limit(name, f"{what} at most {bound:.4g} {unit}".strip(), values, float(bound)))
+    return table
+
+
+def limits_met(case: Case, d) -> np.ndarray:
+    """True where a design point meets every limit of ``limit_table``."""
+    ok = np.ones(len(d), dtype=bool)
+    for limit in limit_table(case, d):
+        ok &= limit.values <= limit.bound
     return ok
 
 
@@ -614,17 +646,29 @@ class Space:
         d = self.designs
         return [(self.case.agents[a], int(n), float(r)) for a, n, r in zip(d.agent, d.trays, d.ratio)]
 
-    def monotone_in_rate(self) -> bool:
-        """True where, within every group, cost and every limited quantity grow with the rate."""
-        d = self.designs
-        order = np.lexsort((d.rate, self.group))
-        same = self.group[order][1:] == self.group[order][:-1]
-        for values in (d.annualized, d.installed, d.electric_power, d.steam_rate, d.diameter,
-                       d.fraction_of_flood):
-            v = values[order]
-            if np.any(same & (v[1:] < v[:-1] * (1 - 1e-12) - 1e-12)):
-                return False
-        return True
+    def undominated(self, keep: int) -> np.ndarray:
+        """Indices of the alternatives that can be among the ``keep`` best; the rest are dropped.
+
+        Alternative p is dropped when at least ``keep`` others of its group
+        (same agent and trays) cost no more and meet every limit p meets:
+        whatever the limits allow, those come before p. Exact for the top
+        ``keep`` under any combination of the limits in ``limit_table``.
+        """
+        d, n = self.designs, len(self.designs)
+        mask = np.zeros(n, dtype=np.int64)
+        for bit, limit in enumerate(limit_table(self.case, d)):
+            mask |= (limit.values <= limit.bound).astype(np.int64) << bit
+        order = np.lexsort((np.arange(n), d.annualized, self.group))
+        grp, msk = self.group[order], mask[order]
+        starts = np.r_[0, np.flatnonzero(grp[1:] != grp[:-1]) + 1]
+        first = np.repeat(starts, np.diff(np.r_[starts, n]))
+        dominators = np.zeros(n, dtype=np.int64)
+        for value in np.unique(msk):
+            covers = ((msk & value) == value).astype(np.int64)
+            running = np.cumsum(covers)
+            before = running - covers - (running[first] - covers[first])
+            dominators = np.where(msk == value, before, dominators)
+        return np.sort(order[dominators < keep])
 
 
 def rate_grid(case: Case) -> np.ndarray:
@@ -667,7 +711,7 @@ def build_space(case: Case, agents=None) -> Space:
         is_least = np.concatenate([is_least, is_least[repeat]])
     else:
         designs = base
-    feasible = designs.meets_spec & designs.within_limits
+    feasible = designs.within_limits
     return Space(case=case, designs=designs, group=group, least=is_least, feasible=feasible)
 
 
@@ -679,3 +723,55 @@ def concatenate(parts: list[Designs]) -> Designs:
     values = {f.name: np.concatenate([getattr(p, f.name) for p in parts])
               for f in fields(Designs) if f.name != "warnings"}
     return Designs(**values, warnings=merged)
+
+
+def _fraction_text(value: float) -> str:
+    """A mole fraction as an engineer writes it: ppmv below 0.1 %, else %."""
+    if value < 1e-6:
+        return f"{value * 1e9:.3g} ppbv"
+    if value < 1e-3:
+        return f"{value * 1e6:.3g} ppmv"
+    return f"{value * 100:.3g} %"
+
+
+def infeasible_reason(space: Space) -> str:
+    """Why no alternative of ``space`` qualifies, with the best reachable figures, in one line."""
+    case = space.case
+    word = "L/Lmin" if case.mode == "absorb" else "G/Gmin"
+    n_max, (_, hi) = case.trays_range[1], case.ratio_range
+    if case.shell_max_trays is not None:
+        n_max = min(n_max, case.shell_max_trays)
+    d = space.designs
+    if len(d) == 0 or not np.any(space.least):
+        parts = []
+        agents = np.arange(len(case.agents))
+        rate = hi * minimum_rate(case, agents)
+        out, _, _ = outlet(case, agents, np.full(agents.shape, n_max), rate)
+        for a, name in enumerate(case.agents):
+            misses = [
+                f"{case.solutes[s]} {_fraction_text(out[a, s])} (spec {_fraction_text(case.target[s])})"
+                for s in range(len(case.solutes)) if out[a, s] > case.target[s] * (1 + 1e-9)
+            ]
+            if not np.isfinite(rate[a]):
+                lean = [case.solutes[s] for s in range(len(case.solutes))
+                        if np.isfinite(case.target[s]) and _equilibrium_inlet(case, a)[s] >= case.target[s]]
+                misses = [f"its lean loading already sets {', '.join(lean)} above the spec"]
+            parts.append(f"{name!r} reaches {', '.join(misses) or 'the spec only outside the ratio range'}")
+        return (f"no design meets the spec: even at {n_max} trays and {hi:g} x {word.split('/')[1]} "
+                + "; ".join(parts) + "; allow more trays, a wider ratio range or add a candidate")
+    meets = np.ones(len(d), bool)
+    limits = limit_table(case, d)
+    for limit in limits:
+        if limit.name.startswith("spec_"):
+            meets &= limit.values <= limit.bound
+    reasons = []
+    for limit in limits:
+        if limit.name.startswith("spec_") or limit.name.startswith("ratio"):
+            continue
+        values = limit.values[meets]
+        if values.size and np.min(values) > limit.bound:
+            reasons.append(f"the least {limit.label.split(' at most')[0]} of any design meeting the spec is "
+                           f"{np.min(values):.4g}, above the limit ({limit.label})")
+    if not reasons:
+        reasons.append("no single design meets every limit at once (" + "; ".join(c.label for c in limits) + ")")
+    return "no design meets the spec within the limits: " + "; ".join(reasons)

@@ -1,0 +1,297 @@
+"""towercost commands: parse, call the API, print. Nothing else lives here.
+
+Exit codes: 0 done; 2 bad input (one line naming the field, the value and
+what is allowed); 3 no design meets the spec within the limits.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from enum import Enum
+from pathlib import Path
+from typing import Optional
+
+import typer
+from rich.console import Console
+
+app = typer.Typer(
+    add_completion=False,
+    no_args_is_help=True,
+    pretty_exceptions_enable=False,
+    help="Least-annualized-cost design of dilute absorbers and strippers (tray columns).",
+)
+
+BAD_INPUT, INFEASIBLE = 2, 3
+
+
+class Mode(str, Enum):
+    absorb = "absorb"
+    strip = "strip"
+
+
+class Method(str, Enum):
+    model = "model"
+    scan = "scan"
+
+
+def _fail(message: str, code: int = BAD_INPUT) -> None:
+    typer.echo(f"error: {message}", err=True)
+    raise typer.Exit(code)
+
+
+def _load(path: Path):
+    from optimizer.scenario import ScenarioError, load_scenario
+
+    try:
+        return load_scenario(path)
+    except ScenarioError as exc:
+        _fail(str(exc))
+
+
+def _run(call):
+    """Call the API; turn its exceptions into one line and an exit code."""
+    from models.kremser import UnreachableTarget
+    from optimizer.scenario import ScenarioError
+    from optimizer.space import InfeasibleSpec
+
+    try:
+        return call()
+    except InfeasibleSpec as exc:
+        _fail(str(exc), INFEASIBLE)
+    except (ScenarioError, UnreachableTarget, FileExistsError, ValueError) as exc:
+        _fail(str(exc))
+
+
+# --------------------------------------------------------------------------- rate
+
+
+def _check(name: str, value: Optional[float], low: float, high: float, allowed: str, *,
+           low_open: bool = True, high_open: bool = True) -> None:
+    if value is None:
+        return
+    below = value <= low if low_open else value < low
+    above = value >= high if high_open else value > high
+    if not math.isfinite(value) or below or above:
+        _fail(f"{name} must be {allowed}, got {value:g}")
+
+
+@app.command()
+def rate(
+    mode: Mode = typer.Option(Mode.absorb, "--mode", help="absorb (treat a gas) or strip (treat a liquid)."),
+    stages: Optional[float] = typer.Option(None, "--stages", help="Theoretical stages N (may be fractional)."),
+    factor: Optional[float] = typer.Option(None, "--factor", help="Absorption factor A (absorb) or stripping factor S (strip)."),
+    liquid: Optional[float] = typer.Option(None, "--liquid", help="Liquid molar flow L (any unit, same as --gas)."),
+    gas: Optional[float] = typer.Option(None, "--gas", help="Gas molar flow V (same unit as --liquid)."),
+    k_value: Optional[float] = typer.Option(None, "--k-value", help="K = y/x at column conditions."),
+    gas_in: Optional[float] = typer.Option(None, "--gas-in", help="Solute mole fraction in the entering gas."),
+    liquid_in: Optional[float] = typer.Option(None, "--liquid-in", help="Solute mole fraction in the entering liquid."),
+    target_remaining: Optional[float] = typer.Option(
+        None, "--target-remaining", help="Fraction of the entering solute left in the treated stream: with "
+        "--factor gives the stages required, with --stages the factor required."),
+    as_json: bool = typer.Option(False, "--json", help="Print one JSON object."),
+) -> None:
+    """One countercurrent cascade of equilibrium stages (Kremser): a quick what-if."""
+    from models import kremser
+
+    absorb = mode is Mode.absorb
+    gas_in = (1e-3 if absorb else 0.0) if gas_in is None else gas_in
+    liquid_in = (0.0 if absorb else 1e-3) if liquid_in is None else liquid_in
+    _check("--stages", stages, 0.0, math.inf, "a number >= 0", low_open=False)
+    _check("--factor", factor, 0.0, math.inf, "a number > 0")
+    _check("--liquid", liquid, 0.0, math.inf, "a flow > 0")
+    _check("--gas", gas, 0.0, math.inf, "a flow > 0")
+    _check("--k-value", k_value, 0.0, math.inf, "a number > 0")
+    _check("--gas-in", gas_in, 0.0, 1.0, "a mole fraction in [0, 1)", low_open=False)
+    _check("--liquid-in", liquid_in, 0.0, 1.0, "a mole fraction in [0, 1)", low_open=False)
+    _check("--target-remaining", target_remaining, 0.0, 1.0, "a fraction in (0, 1)")
+    treated_in = gas_in if absorb else liquid_in
+    if treated_in == 0:
+        _fail(f"{'--gas-in' if absorb else '--liquid-in'} must be > 0 for the treated stream, got 0")
+
+    if factor is None and None not in (liquid, gas, k_value):
+        factor = liquid / (k_value * gas) if absorb else k_value * gas / liquid
+    elif factor is not None and (liquid is not None or gas is not None):
+        _fail("give --factor or the flows (--liquid, --gas with --k-value), not both")
+    other_in = liquid_in if absorb else gas_in
+    if other_in > 0 and k_value is None:
+        _fail(f"{'--liquid-in' if absorb else '--gas-in'} {other_in:g} needs --k-value: the entering "
+              f"{'solvent' if absorb else 'stripping gas'} enters through K")
+
+    record: dict = {"mode": mode.value}
+
+    def inverse():
+        if target_remaining is None:
+            return
+        eq = (k_value or 0.0) * liquid_in if absorb else (gas_in / k_value if gas_in else 0.0)
+        outlet = target_remaining * treated_in
+        if outlet <= eq:
+            raise kremser.UnreachableTarget(
+                f"--target-remaining {target_remaining:g} is beyond reach: the entering "
+                f"{'solvent' if absorb else 'stripping gas'} holds the treated stream at or above "
+                f"{eq / treated_in:.6g} of its inlet", best=eq / treated_in)
+        phi = float(kremser.driving_force_fraction(outlet, treated_in, eq))
+        if factor is not None and stages is None:
+            try:
+                needed = float(kremser.stages_for_fraction(phi, factor))
+            except kremser.UnreachableTarget as exc:
+                best = (1 - factor) * (1 - eq / treated_in) + eq / treated_in
+                raise kremser.UnreachableTarget(
+                    f"--target-remaining {target_remaining:g} is beyond reach with factor {factor:g}: "
+                    f"with unlimited stages the fraction remaining cannot fall below {best:.6g}", best=best
+                ) from exc
+            record["stages_required"] = needed
+            return needed, factor
+        if stages is not None and factor is None:
+            if stages == 0:
+                raise kremser.UnreachableTarget("--target-remaining needs --stages > 0", best=1.0)
+            needed = float(kremser.factor_for_fraction(phi, stages))
+            record["factor_required"] = needed
+            return stages, needed
+        raise ValueError("--target-remaining goes with exactly one of --factor (or the flows) and --stages")
+
+    found = _run(inverse)
+    n, f = found if found else (stages, factor)
+    if n is None or f is None:
+        _fail("give --stages and --factor (or --liquid, --gas and --k-value)")
+    cascade = _run(lambda: (kremser.absorb(f, n, gas_in, liquid_in, k_value) if absorb
+                            else kremser.strip(f, n, liquid_in, gas_in, k_value)))
+
+    def num(value):
+        return None if value is None else float(value)
+
+    record.update(stages=float(n), factor=float(f), k_value=k_value, gas_in=gas_in, liquid_in=liquid_in,
+                  fraction_remaining=num(cascade.fraction_remaining), fraction_removed=num(cascade.fraction_removed),
+                  gas_out=num(cascade.gas_out), liquid_out=num(cascade.liquid_out))
+    if as_json:
+        typer.echo(json.dumps(record, indent=2))
+        return
+    console = Console()
+    word = "absorption factor A" if absorb else "stripping factor S"
+    console.print(f"[bold]Countercurrent cascade, {mode.value}[/bold] (Kremser; dilute, linear equilibrium, constant L and V)")
+    lines = [("theoretical stages", f"{n:.4g}"), (word, f"{f:.6g}")]
+    if "stages_required" in record:
+        lines.append(("stages required", f"{record['stages_required']:.4f} (round up)"))
+    if "factor_required" in record:
+        lines.append(("factor required", f"{record['factor_required']:.6g}"))
+    lines += [("fraction remaining", f"{record['fraction_remaining']:.6g}"),
+              ("fraction removed", f"{record['fraction_removed']:.6g}"),
+              ("gas in / out", f"{gas_in:.6g} / " + ("-" if record["gas_out"] is None else f"{record['gas_out']:.6g}")),
+              ("liquid in / out", f"{liquid_in:.6g} / " + ("-" if record["liquid_out"] is None else f"{record['liquid_out']:.6g}"))]
+    width = max(len(k) for k, _ in lines)
+    for k, v in lines:
+        console.print(f"  {k:<{width}}  {v}", highlight=False)
+    if record["gas_out"] is None or record["liquid_out"] is None:
+        console.print("  [dim]give --k-value for the other stream's outlet[/dim]")
+
+
+# --------------------------------------------------------------------------- evaluate
+
+
+@app.command()
+def evaluate(
+    scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
+    solvent: str = typer.Option(..., "--solvent", help="Candidate name (solvent, or stripping gas)."),
+    trays: int = typer.Option(..., "--trays", help="Real trays."),
+    ratio: Optional[float] = typer.Option(None, "--ratio", help="Agent rate as a multiple of the minimum (L/Lmin or G/Gmin)."),
+    rate_: Optional[str] = typer.Option(None, "--rate", help="Agent molar rate, e.g. '95 kmol/h' (bare number: mol/s)."),
+    as_json: bool = typer.Option(False, "--json", help="Print one JSON object."),
+) -> None:
+    """Evaluate one design exactly and print its design sheet."""
+    from optimizer import ranking, report
+    from optimizer.units import UnitError, to_si
+
+    data = _load(scenario)
+    if trays < 1:
+        _fail(f"--trays must be a whole number >= 1, got {trays}")
+    if (ratio is None) == (rate_ is None):
+        _fail("give exactly one of --ratio and --rate")
+    _check("--ratio", ratio, 0.0, math.inf, "a number > 0")
+    molar = None
+    if rate_ is not None:
+        try:
+            molar = to_si(rate_, "mol/s", what="--rate")
+        except UnitError as exc:
+            _fail(str(exc))
+        _check("--rate", molar, 0.0, math.inf, "a flow > 0")
+    designs, warnings = _run(lambda: ranking.evaluate_design(data, solvent, trays, ratio=ratio, rate=molar))
+    from optimizer.space import prepare
+
+    case = prepare(data)
+    if as_json:
+        record = report.design_record(case, designs)
+        record.update(warnings=warnings, caution=report.CAUTION)
+        typer.echo(report.to_json(record))
+        return
+    report.print_design(report.console(), case, designs, warnings, f"{data.case.name}: design sheet")
+
+
+# --------------------------------------------------------------------------- optimize, curve, schema
+
+
+@app.command()
+def optimize(
+    scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
+    top: int = typer.Option(10, "--top", min=1, max=200, help="How many distinct designs to rank."),
+    method: Method = typer.Option(Method.model, "--method", help="model (Pyomo + HiGHS) or scan (every alternative)."),
+    as_json: bool = typer.Option(False, "--json", help="Print one JSON object instead of tables."),
+    csv: bool = typer.Option(False, "--csv", help="Write the ranked designs as CSV into the output folder."),
+    save: bool = typer.Option(False, "--save", help="Write the JSON report into the output folder."),
+    out: Path = typer.Option(Path("reports"), "--out", help="Output folder for --csv and --save."),
+    force: bool = typer.Option(False, "--force", help="Replace files that already exist."),
+) -> None:
+    """Rank the designs of least total annualized cost: solvent, rate, trays and diameter."""
+    from optimizer import ranking, report
+
+    data = _load(scenario)
+    result = _run(lambda: ranking.optimize(data, top=top, method=method.value))
+    record = report.result_record(result)
+    written = []
+    stem = scenario.stem
+    if csv:
+        frame = report.alternatives_frame(result)
+        written.append(_run(lambda: report.write_new(out / f"{stem}-designs.csv", frame.to_csv(index=False), force=force)))
+    if save:
+        written.append(_run(lambda: report.write_new(out / f"{stem}-report.json", report.to_json(record), force=force)))
+    if as_json:
+        typer.echo(report.to_json(record))
+    else:
+        console = report.console()
+        report.print_ranking(console, result)
+        for path in written:
+            console.print(f"wrote {path}", highlight=False)
+
+
+@app.command()
+def curve(
+    scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
+    solvent: str = typer.Option(..., "--solvent", help="Candidate name (solvent, or stripping gas)."),
+) -> None:
+    """Annualized cost of one candidate against trays and against the ratio to the minimum."""
+    from optimizer import ranking, report
+    from optimizer.space import prepare
+
+    data = _load(scenario)
+    result = _run(lambda: ranking.cost_curve(data, solvent))
+    report.print_curve(report.console(), prepare(data), result)
+
+
+@app.command()
+def schema(
+    out: Optional[Path] = typer.Option(None, "--out", help="Write to this file instead of printing."),
+    force: bool = typer.Option(False, "--force", help="Replace the file if it exists."),
+) -> None:
+    """The JSON Schema of scenario files, for editors that validate TOML."""
+    from optimizer import report
+    from optimizer.scenario import Scenario
+
+    text = json.dumps(Scenario.model_json_schema(), indent=2)
+    if out is None:
+        typer.echo(text)
+    else:
+        _run(lambda: report.write_new(out, text + "\n", force=force))
+        typer.echo(f"wrote {out}")
+
+
+def main() -> None:  # pragma: no cover - console entry point
+    app()
