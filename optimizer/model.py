@@ -142,24 +142,27 @@ def solve(space: Space, top: int = 1, *, per_agent: bool = True, reduce: bool = 
         opt.update_variables([picks[position]])
     if not order:
         raise InfeasibleSpec(infeasible_reason(space))
-    for position in (int(np.flatnonzero(index == i)[0]) for i in order):
-        picks[position].setub(1)
-    opt.update_variables(picks)
     best_of: dict[int, int] = {}
     if per_agent:
-        agent_of = space.designs.agent[index]
+        # The best of each agent needs only the best alternative of each group: a smaller model.
+        small = space.undominated(1)
+        m1 = build_model(space, small)
+        opt1 = _solver()
+        opt1.set_instance(m1)
+        picks1 = list(m1.pick.values())
+        agent_of = space.designs.agent[small]
         for a in np.unique(agent_of):
-            others = [p for p, ag in zip(picks, agent_of) if ag != a]
+            others = [p for p, ag in zip(picks1, agent_of) if ag != a]
             for p in others:
                 p.setub(0)
-            opt.update_variables(others)
-            found = _solve_once(opt, m)
+            opt1.update_variables(others)
+            found = _solve_once(opt1, m1)
             solves += 1
             if found is not None:
-                best_of[int(a)] = int(index[found[0]])
+                best_of[int(a)] = int(small[found[0]])
             for p in others:
                 p.setub(1)
-            opt.update_variables(others)
+            opt1.update_variables(others)
     done = time.perf_counter()
     return ModelRun(order=order, objective=objective, alternatives=int(index.size),
                     alternatives_total=len(space.designs), build_seconds=built - start,

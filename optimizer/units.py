@@ -7,9 +7,30 @@ Parsed once, here, with pint. Everything past this module works in SI
 from __future__ import annotations
 
 import re
+import sys
 from functools import lru_cache
 
-import pint
+
+def _import_pint():
+    """Import pint without letting it pull in scipy.
+
+    pint imports scipy, when installed, only to test for it; once scipy is
+    loaded, Pyomo resolves its own deferred scipy import eagerly and loads
+    scipy.stats, which cost about 1 s per command on this machine. Nothing
+    towercost asks of pint uses scipy.
+    """
+    hide = "scipy" not in sys.modules
+    if hide:
+        sys.modules["scipy"] = None  # makes `import scipy` raise ImportError inside pint
+    try:
+        import pint
+    finally:
+        if hide:
+            del sys.modules["scipy"]
+    return pint
+
+
+pint = _import_pint()
 
 #: Standard atmosphere [Pa], for gauge pressures (ISO 2533 / CGPM 1954 definition).
 STANDARD_ATMOSPHERE = 101_325.0
@@ -31,7 +52,7 @@ def _pint_text(text: str) -> str:
 @lru_cache(maxsize=1)
 def registry() -> pint.UnitRegistry:
     """The one unit registry, with money and mole-fraction shorthands."""
-    ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True, cache_folder=":auto:")
     ureg.define("USD = [currency] = usd = dollar")
     ureg.define("kUSD = 1000 USD")
     ureg.define("MUSD = 1e6 USD")
