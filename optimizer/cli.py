@@ -41,7 +41,8 @@ def _fail(message: str, code: int = BAD_INPUT) -> None:
 
 
 def _load(path: Path):
-    from optimizer.scenario import ScenarioError, load_scenario
+    from optimizer.errors import ScenarioError
+    from optimizer.scenario import load_scenario
 
     try:
         return load_scenario(path)
@@ -52,8 +53,7 @@ def _load(path: Path):
 def _run(call):
     """Call the API; turn its exceptions into one line and an exit code."""
     from models.kremser import UnreachableTarget
-    from optimizer.scenario import ScenarioError
-    from optimizer.space import InfeasibleSpec
+    from optimizer.errors import InfeasibleSpec, ScenarioError
 
     try:
         return call()

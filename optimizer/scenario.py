@@ -38,7 +38,10 @@ from pydantic import (
     model_validator,
 )
 
+from optimizer.errors import ScenarioError
 from optimizer.units import UnitError, dimension_of, to_si
+
+__all__ = ["Scenario", "ScenarioError", "load_scenario", "parse_scenario", "gas_density"]
 
 #: Molar gas constant [J/(mol K)], CODATA 2018 exact value.
 GAS_CONSTANT = 8.314462618
@@ -48,10 +51,6 @@ HENRY_SCALES = (
     "Hxp", "1/atm", "alpha", "bunsen coefficient", "KHpx", "atm", "m^3*Pa/mol",
     "KHpc", "m^3*atm/mol", "KHcc", "SI",
 )
-
-
-class ScenarioError(ValueError):
-    """A scenario value that cannot be accepted; the message is one line for the user."""
 
 
 def _unit(unit: str):

@@ -28,7 +28,8 @@ from dataclasses import dataclass, field, fields
 import numpy as np
 
 from models import costing, economics, efficiency, equilibrium, hydraulics, kremser, vessel
-from optimizer.scenario import Scenario, ScenarioError, gas_density
+from optimizer.errors import InfeasibleSpec, ScenarioError
+from optimizer.scenario import Scenario, gas_density
 from optimizer.units import STANDARD_ATMOSPHERE
 
 #: Standard acceleration of gravity [m/s2] (CGPM 1901 conventional value).
@@ -47,10 +48,6 @@ PLATE = {"carbon_steel": "SA-516-70", "ss304": "SA-240-304", "ss316": "SA-240-31
 
 #: Rate grid points closer than this (relative) to the least rate are dropped.
 _SAME_RATE = 1e-9
-
-
-class InfeasibleSpec(ValueError):
-    """No design in the space meets the spec within the limits; the message says why."""
 
 
 @dataclass(frozen=True)

@@ -1,0 +1,95 @@
+"""Every towercost benchmark in turn, then one combined table and the machine they ran on.
+
+What ``make bench`` runs: .venv/bin/python benchmarks/run.py
+
+The modules (each also runs alone and prints its own rows):
+  bench_kremser    throughput of the Kremser relation and its inverses
+  bench_evaluate   exact evaluation of 10**5 designs; one-design CLI commands
+  bench_optimizer  space, model, scan, optimize command and a plain loop, two scenarios
+
+Figures are wall-clock seconds (time.perf_counter), best of several runs
+where a run is cheap, on one process; the machine may be shared, so treat
+differences under about 20 % as noise.
+"""
+
+from __future__ import annotations
+
+import os
+import platform
+import sys
+import time
+from pathlib import Path
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE.parent))  # run from a checkout without installing
+sys.path.insert(0, str(HERE))
+
+import bench_evaluate  # noqa: E402
+import bench_kremser  # noqa: E402
+import bench_optimizer  # noqa: E402
+
+MODULES = (bench_kremser, bench_evaluate, bench_optimizer)
+
+
+def cpu_model() -> str:
+    """The CPU model name from /proc/cpuinfo, or the platform's word for it."""
+    try:
+        for line in Path("/proc/cpuinfo").read_text().splitlines():
+            if line.lower().startswith("model name"):
+                return line.split(":", 1)[1].strip()
+    except OSError:
+        pass
+    return platform.processor() or "unknown"
+
+
+def machine() -> list[tuple[str, str]]:
+    """What the figures were measured on."""
+    try:
+        usable = len(os.sched_getaffinity(0))
+    except AttributeError:
+        usable = os.cpu_count() or 0
+    versions = []
+    for package in ("numpy", "pyomo", "highspy"):
+        try:
+            from importlib.metadata import version
+
+            versions.append(f"{package} {version(package)}")
+        except Exception:  # noqa: BLE001 - a missing package is reported, not fatal
+            versions.append(f"{package} ?")
+    return [
+        ("python", f"{platform.python_version()} ({platform.python_implementation()}, {sys.executable})"),
+        ("nproc", str(usable)),
+        ("cpu", cpu_model()),
+        ("platform", platform.platform()),
+        ("packages", ", ".join(versions)),
+    ]
+
+
+def _text(value) -> str:
+    return f"{value:,}" if isinstance(value, int) else f"{value:.4g}"
+
+
+def main() -> list[tuple[str, str, float, str]]:
+    table = []
+    start = time.perf_counter()
+    for module in MODULES:
+        section = module.__name__.removeprefix("bench_")
+        print(f"== {module.__name__}", flush=True)
+        for name, value, unit in module.main():
+            table.append((section, name, value, unit))
+    total = time.perf_counter() - start
+
+    print("\n== towercost benchmarks")
+    for key, value in machine():
+        print(f"{key:9s} {value}")
+    width = max(len(name) for _, name, _, _ in table)
+    print(f"\n{'section':10s} {'figure':{width}s} {'value':>12s} unit")
+    print(f"{'-' * 10} {'-' * width} {'-' * 12} {'-' * 9}")
+    for section, name, value, unit in table:
+        print(f"{section:10s} {name:{width}s} {_text(value):>12s} {unit}")
+    print(f"\nall benchmarks: {total:.1f} s")
+    return table
+
+
+if __name__ == "__main__":
+    main()
