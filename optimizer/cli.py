@@ -213,7 +213,8 @@ def evaluate(
             molar = to_si(rate_, "mol/s", what="--rate")
         except UnitError as exc:
             _fail(str(exc))
-        _check("--rate", molar, 0.0, math.inf, "a flow > 0")
+        if not (math.isfinite(molar) and molar > 0):
+            _fail(f"--rate must be a flow > 0, got {rate_!r}")
     designs, warnings = _run(lambda: ranking.evaluate_design(data, solvent, trays, ratio=ratio, rate=molar))
     from optimizer.space import prepare
 

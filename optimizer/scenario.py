@@ -94,6 +94,7 @@ Money = Annotated[float, _unit("USD"), Field(gt=0)]
 Power = Annotated[float, _unit("W"), Field(gt=0)]
 MassFlow = Annotated[float, _unit("kg/s"), Field(gt=0)]
 MassRatio = Annotated[float, _unit("dimensionless"), Field(ge=0, allow_inf_nan=False)]
+VolumePerMass = Annotated[float, _unit("m^3/kg"), Field(ge=0, allow_inf_nan=False)]
 Years = Annotated[float, _unit("year"), Field(gt=0, le=100)]
 HoursPerYear = Annotated[float, _unit("hour/year"), Field(gt=0, le=8784)]
 
@@ -130,14 +131,16 @@ class Feed(_Table):
         dim = dimension_of(raw)
         if dim is None or dim == "[substance] / [time]":
             return data  # molar, a bare number, or text the field itself reports on
+        if "molar_mass" not in data:
+            raise ValueError(f"a mass or volume flow {raw!r} needs the feed molar_mass")
         if dim == "[mass] / [time]":
-            molar_mass = to_si(data.get("molar_mass", float("nan")), "kg/mol", what="molar_mass")
+            molar_mass = to_si(data["molar_mass"], "kg/mol", what="molar_mass")
             value = to_si(raw, "kg/s") / molar_mass
         elif dim == "[length] ** 3 / [time]":
             if "density" not in data:
                 raise ValueError(f"a volume flow {raw!r} needs the feed density")
             density = to_si(data["density"], "kg/m^3", what="density")
-            molar_mass = to_si(data.get("molar_mass", float("nan")), "kg/mol", what="molar_mass")
+            molar_mass = to_si(data["molar_mass"], "kg/mol", what="molar_mass")
             value = to_si(raw, "m^3/s") * density / molar_mass
         else:
             raise ValueError(f"flow {raw!r} must be a molar, mass or volume flow per time, got {dim}")
@@ -213,7 +216,7 @@ class Agent(_Table):
     loss: Annotated[float, Field(ge=0, le=1)] = 0.0  # fraction of the circulating agent lost per pass
     lean: dict[str, MoleFraction] = {}  # solute mole fractions in the agent entering the column
     regeneration_steam: MassRatio = 0.0  # [kg steam / kg agent circulated]
-    regeneration_cooling: MassRatio = 0.0  # [m3 cooling water / kg agent circulated]
+    regeneration_cooling: VolumePerMass = 0.0  # [m3 cooling water / kg agent circulated]
     efficiency: Annotated[float, Field(gt=0, le=1)] | None = None  # overall tray efficiency override
 
     @model_validator(mode="after")

@@ -743,7 +743,9 @@ def infeasible_reason(space: Space) -> str:
         parts = []
         agents = np.arange(len(case.agents))
         rate = hi * minimum_rate(case, agents)
-        out, _, _ = outlet(case, agents, np.full(agents.shape, n_max), rate)
+        # An agent whose lean loading already exceeds a spec has no finite minimum rate; its
+        # outlet is not needed (the message names the lean loading), so evaluate it at any rate.
+        out, _, _ = outlet(case, agents, np.full(agents.shape, n_max), np.where(np.isfinite(rate), rate, 1.0))
         for a, name in enumerate(case.agents):
             misses = [
                 f"{case.solutes[s]} {_fraction_text(out[a, s])} (spec {_fraction_text(case.target[s])})"

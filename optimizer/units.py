@@ -56,6 +56,8 @@ def registry() -> pint.UnitRegistry:
     ureg.define("USD = [currency] = usd = dollar")
     ureg.define("kUSD = 1000 USD")
     ureg.define("MUSD = 1e6 USD")
+    ureg.define("lbmol = 453.59237 mol = lb_mol = lbmole")  # pound-mole: the avoirdupois pound, exact
+    ureg.define("psia = psi")                                # absolute; psig is handled as a gauge unit
     ureg.define("ppmv = 1e-6 = ppmv")
     ureg.define("ppbv = 1e-9 = ppbv")
     return ureg

@@ -1,0 +1,618 @@
+"""Checks of the optimizer: optimizer/space.py, optimizer/model.py, optimizer/ranking.py.
+
+Truth comes from outside the selection model:
+
+* exhaustive enumeration (``ranking.scan``: every alternative evaluated and
+  sorted) is the independent method the Pyomo/HiGHS model must agree with;
+* the limiting cases of the solvent-rate / stage-count trade-off, and an
+  exchange argument for the direction the optimum moves with the solvent price;
+* the Kremser relation, re-implemented here, for the outlet of every design
+  returned;
+* handbook rules of thumb for where the economic solvent rate lies.
+
+Tests that expose a defect still present in optimizer/ or models/ are marked
+``xfail(strict=True, reason="BUG: ...")``: they fail today and must start
+passing (and then lose the mark) when the defect is fixed.
+"""
+
+from __future__ import annotations
+
+import copy
+import math
+import tomllib
+from pathlib import Path
+
+import numpy as np
+import pytest
+from hypothesis import HealthCheck, Phase, given, settings
+from hypothesis import strategies as st
+
+from optimizer import model, ranking
+from optimizer import space as sp
+from optimizer.scenario import ScenarioError, load_scenario, parse_scenario
+from optimizer.space import InfeasibleSpec
+
+SCENARIOS = Path(__file__).resolve().parent.parent / "scenarios"
+ABSORBER = SCENARIOS / "demo_absorber.toml"
+STRIPPER = SCENARIOS / "demo_air_stripper.toml"
+
+#: Relative slack the space itself allows on a spec (``space.limit_table``).
+SPEC_SLACK = 1e-9
+
+
+# ---------------------------------------------------------------------------
+# helpers
+# ---------------------------------------------------------------------------
+
+
+def space_of(data: dict) -> sp.Space:
+    """Validate a scenario dict and evaluate its whole design space."""
+    return sp.build_space(sp.prepare(parse_scenario(copy.deepcopy(data), "generated")))
+
+
+def raw_scenario(path: Path) -> dict:
+    with path.open("rb") as fh:
+        return tomllib.load(fh)
+
+
+def kremser_outlet(case: sp.Case, d: sp.Designs) -> np.ndarray:
+    """Treated-stream outlet mole fractions recomputed here from the decisions alone.
+
+    Kremser relation for a countercurrent cascade, clean-inlet form
+    phi = (F - 1) / (F**(N+1) - 1) (phi = 1/(N+1) at F = 1), with F the
+    absorption factor A = L/(K V) or the stripping factor S = K V/L and
+    N = trays x overall efficiency; the outlet is y* + phi (y_in - y*) with
+    y* the treated-stream fraction in equilibrium with the entering agent.
+    Source: Kremser relation as given in Perry's Chemical Engineers' Handbook,
+    8th ed., Section 14 (form from memory). Evaluated with log1p/expm1 so that
+    F near 1 keeps full precision. Not valid for a Murphree-efficiency case.
+    """
+    k = case.k_value[d.agent]                                   # (n, n_solutes)
+    rate = d.rate[:, None]
+    if case.mode == "absorb":
+        factor = rate / (k * case.feed_flow)
+        eq = k * case.lean[d.agent]
+    else:
+        factor = k * rate / case.feed_flow
+        eq = case.lean[d.agent] / k
+    stages = d.trays[:, None] * case.efficiency[d.agent]
+    gap = factor - 1.0
+    with np.errstate(divide="ignore", invalid="ignore"):
+        phi = np.where(gap == 0.0, 1.0 / (stages + 1.0), gap / np.expm1((stages + 1.0) * np.log1p(gap)))
+    return eq + phi * (case.feed_in - eq)
+
+
+def assert_meets_spec_and_limits(case: sp.Case, d: sp.Designs) -> None:
+    """Every design of ``d`` meets every spec and every limit of ``case``, read from the raw figures."""
+    assert len(d) > 0
+    spec = np.isfinite(case.target)
+    assert np.all(d.outlet[:, spec] <= case.target[spec] * (1 + SPEC_SLACK))
+    if case.murphree is None:
+        independent = kremser_outlet(case, d)
+        np.testing.assert_allclose(independent, d.outlet, rtol=1e-8, atol=0)
+        assert np.all(independent[:, spec] <= case.target[spec] * (1 + 1e-8))
+    lo, hi = case.trays_range
+    assert np.all((d.trays >= lo) & (d.trays <= hi))
+    r_lo, r_hi = case.ratio_range
+    assert np.all(d.ratio >= r_lo * (1 - 1e-12)) and np.all(d.ratio <= r_hi * (1 + 1e-12))
+    assert np.all(d.fraction_of_flood <= case.flood_fraction * (1 + 1e-9))
+    assert np.all(d.height <= case.max_height)
+    assert np.all(d.diameter <= case.max_diameter)
+    if case.shell_diameter is not None:
+        np.testing.assert_allclose(d.diameter, case.shell_diameter, rtol=1e-12)
+        assert np.all(d.trays <= case.shell_max_trays)
+    if case.capital_budget is not None:
+        assert np.all(d.installed <= case.capital_budget)
+    if case.max_power is not None:
+        assert np.all(d.electric_power <= case.max_power)
+    if case.max_steam is not None:
+        assert np.all(d.steam_rate <= case.max_steam)
+    assert np.all(d.within_limits)
+
+
+def assert_same_ranking(space: sp.Space, model_order, scan_order, rel: float) -> None:
+    """The model's ranking equals the exhaustive one: same costs; same indices where costs are not tied."""
+    cost = space.designs.annualized
+    assert len(model_order) == len(scan_order)
+    np.testing.assert_allclose(cost[model_order], cost[scan_order], rtol=rel, atol=0)
+    for position, (m, s) in enumerate(zip(model_order, scan_order)):
+        others = np.delete(cost[scan_order], position)
+        tied = np.any(np.isclose(others, cost[s], rtol=rel, atol=0))
+        if not tied:
+            assert m == s, f"rank {position + 1}: model picked {m}, scan {s}"
+
+
+# ---------------------------------------------------------------------------
+# generated scenarios
+# ---------------------------------------------------------------------------
+
+
+@st.composite
+def scenario_dicts(draw):
+    """A small random absorber or stripper scenario (dict, as read from TOML), without limits."""
+    def log_uniform(lo, hi):
+        return 10.0 ** draw(st.floats(math.log10(lo), math.log10(hi)))
+
+    mode = draw(st.sampled_from(["absorb", "strip"]))
+    solutes = ["sa", "sb"][: draw(st.integers(1, 2))]
+    n_agents = draw(st.integers(1, 3))
+    if mode == "absorb":
+        composition = {s: log_uniform(1e-5, 5e-3) for s in solutes}
+        feed = {"flow": log_uniform(2.0, 1000.0), "temperature": draw(st.floats(280.0, 330.0)),
+                "pressure": draw(st.floats(1.0e5, 4.0e5)), "molar_mass": 0.029, "composition": composition}
+    else:
+        composition = {s: log_uniform(1e-8, 1e-4) for s in solutes}
+        feed = {"flow": log_uniform(1.0, 1000.0), "temperature": draw(st.floats(280.0, 330.0)),
+                "pressure": draw(st.floats(1.0e5, 2.0e5)), "molar_mass": 0.018, "composition": composition,
+                "density": draw(st.floats(950.0, 1050.0)), "viscosity": log_uniform(5e-4, 3e-3),
+                "surface_tension": draw(st.floats(0.03, 0.075))}
+    kinds = [draw(st.sampled_from(["outlet", "removal", None])) for _ in solutes]
+    if all(kind is None for kind in kinds):
+        kinds[0] = "outlet"
+    spec, target = [], {}
+    for solute, kind in zip(solutes, kinds):
+        if kind == "outlet":
+            target[solute] = composition[solute] * log_uniform(1e-3, 0.5)
+            spec.append({"solute": solute, "outlet": target[solute]})
+        elif kind == "removal":
+            removal = draw(st.floats(0.5, 0.999))
+            target[solute] = (1.0 - removal) * composition[solute]
+            spec.append({"solute": solute, "removal": removal})
+    agents = []
+    for i in range(n_agents):
+        k = {s: (log_uniform(0.03, 10.0) if mode == "absorb" else log_uniform(10.0, 1000.0)) for s in solutes}
+        agent = {"name": f"agent {i}", "k": k, "disposal": draw(st.floats(0.0, 0.01))}
+        if mode == "absorb":
+            agent.update(molar_mass=draw(st.floats(0.018, 0.3)), density=draw(st.floats(700.0, 1100.0)),
+                         viscosity=log_uniform(5e-4, 1e-2), surface_tension=draw(st.floats(0.02, 0.07)),
+                         price=draw(st.floats(0.0, 3.0)))
+            if draw(st.booleans()):
+                agent.update(regenerated=True, loss=draw(st.floats(0.0, 0.01)),
+                             regeneration_steam=draw(st.floats(0.0, 0.1)),
+                             regeneration_cooling=draw(st.floats(0.0, 0.01)))
+        else:
+            agent.update(molar_mass=0.029)
+        if draw(st.booleans()):
+            # entering agent loaded, but below what each spec allows (y* = share x target)
+            lean = {}
+            for s in solutes:
+                share = draw(st.floats(0.0, 0.5))
+                allowed = target.get(s, composition[s])
+                lean[s] = share * allowed / k[s] if mode == "absorb" else share * allowed * k[s]
+            agent["lean"] = lean
+        if draw(st.integers(0, 4)) == 0:
+            agent["efficiency"] = draw(st.floats(0.2, 0.9))
+        agents.append(agent)
+    efficiency = draw(st.one_of(st.floats(0.2, 0.9), st.just("oconnell"),
+                                st.builds(lambda e: {"murphree": e}, st.floats(0.4, 0.9))))
+    low_trays = draw(st.integers(1, 5))
+    low_ratio = draw(st.floats(1.02, 1.5))
+    column = {"tray": draw(st.sampled_from(["sieve", "valve"])), "efficiency": efficiency,
+              "material": draw(st.sampled_from(["carbon_steel", "ss304", "ss316"])),
+              "trays": [low_trays, low_trays + draw(st.integers(0, 20))],
+              "ratio": [low_ratio, low_ratio + draw(st.floats(0.5, 5.0))],
+              "ratio_levels": draw(st.integers(8, 15)), "larger_diameters": draw(st.integers(0, 2)),
+              "flood_fraction": draw(st.floats(0.6, 0.85))}
+    economics = {"interest": draw(st.floats(0.0, 0.2)), "life": draw(st.floats(5.0, 30.0)),
+                 "hours": draw(st.floats(4000.0, 8760.0)),
+                 "electricity": draw(st.floats(0.0, 0.2)) / 3.6e6,
+                 "steam": draw(st.floats(0.0, 0.05)), "cooling_water": draw(st.floats(0.0, 0.1))}
+    word = "solvent" if mode == "absorb" else "stripping_gas"
+    return {"case": {"name": "generated", "mode": mode}, "feed": feed, "spec": spec, word: agents,
+            "column": column, "economics": economics}
+
+
+def draw_limits(data, free: sp.Space) -> dict:
+    """Limits at or near the figures of the free space's feasible designs, so that they bite."""
+    ok = free.feasible
+    if not np.any(ok):
+        return {}
+    d = free.designs
+    near = st.sampled_from([1.0, 1.0, 0.999, 1.001, 0.7, 1.3])
+
+    def bound(values):
+        values = np.unique(values[ok])
+        values = values[values > 0]
+        if values.size == 0:
+            return None
+        return float(data.draw(st.sampled_from(values.tolist()))) * data.draw(near)
+
+    limits: dict = {"economics": {}, "column": {}}
+    for key, values, table in (("capital_budget", d.installed, "economics"),
+                               ("max_power", d.electric_power, "economics"),
+                               ("max_steam", d.steam_rate, "economics"),
+                               ("max_diameter", d.diameter, "column"),
+                               ("max_height", d.height, "column")):
+        if data.draw(st.integers(0, 3)) == 0:
+            value = bound(values)
+            if value is not None:
+                limits[table][key] = value
+    if data.draw(st.integers(0, 3)) == 0:
+        lo, hi = free.case.trays_range
+        limits["column"]["existing_shell"] = {"diameter": bound(d.diameter),
+                                              "max_trays": data.draw(st.integers(lo, hi))}
+    return limits
+
+
+def with_limits(base: dict, limits: dict) -> dict:
+    out = copy.deepcopy(base)
+    for table, values in limits.items():
+        out[table].update(values)
+    return out
+
+
+def generated_space(base: dict, data) -> sp.Space:
+    return space_of(with_limits(base, draw_limits(data, space_of(base))))
+
+
+GENERATED = settings(max_examples=200, deadline=None, database=None,
+                     suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large])
+
+
+# ---------------------------------------------------------------------------
+# 1. model against exhaustive scan on the bundled scenarios
+# ---------------------------------------------------------------------------
+
+
+@pytest.fixture(scope="module", params=[ABSORBER, STRIPPER], ids=["absorber", "stripper"])
+def bundled(request):
+    scenario = load_scenario(request.param)
+    space = sp.build_space(sp.prepare(scenario))
+    return scenario, space
+
+
+def test_bundled_model_top10_equals_scan(bundled):
+    # Independent method: exhaustive enumeration (every alternative evaluated and sorted).
+    _, space = bundled
+    run = model.solve(space, top=10)
+    order, best_of = ranking.scan(space, 10)
+    cost = space.designs.annualized
+    assert len(order) == 10
+    assert run.objective[0] == pytest.approx(cost[order[0]], rel=1e-12)
+    np.testing.assert_allclose(run.objective, cost[run.order], rtol=1e-12, atol=0)
+    assert_same_ranking(space, run.order, order, rel=1e-12)
+    assert set(run.per_agent) == set(best_of)
+    for a, i in best_of.items():
+        assert cost[run.per_agent[a]] == pytest.approx(cost[i], rel=1e-12)
+
+
+def test_bundled_reduction_is_exact(bundled):
+    # The dominance reduction drops alternatives; the full model must rank the same.
+    _, space = bundled
+    reduced = model.solve(space, top=10, reduce=True)
+    full = model.solve(space, top=10, reduce=False)
+    assert reduced.alternatives < full.alternatives == len(space.designs)
+    np.testing.assert_allclose(reduced.objective, full.objective, rtol=1e-12, atol=0)
+    assert {a: space.designs.annualized[i] for a, i in reduced.per_agent.items()} == pytest.approx(
+        {a: space.designs.annualized[i] for a, i in full.per_agent.items()}, rel=1e-12)
+
+
+def test_stripper_with_limits_reduction_is_exact():
+    # Same as above with a budget and a diameter cap that remove the free optimum.
+    raw = raw_scenario(STRIPPER)
+    free = space_of(raw)
+    best = int(ranking.scan(free, 1)[0][0])
+    raw["economics"]["capital_budget"] = float(free.designs.installed[best]) * 0.98
+    raw["column"]["max_diameter"] = float(np.max(free.designs.diameter[free.feasible])) - 0.1
+    space = space_of(raw)
+    order, _ = ranking.scan(space, 5)
+    assert order[0] != best
+    reduced = model.solve(space, top=5, reduce=True)
+    full = model.solve(space, top=5, reduce=False)
+    cost = space.designs.annualized
+    np.testing.assert_allclose(reduced.objective, cost[order], rtol=1e-12, atol=0)
+    np.testing.assert_allclose(full.objective, cost[order], rtol=1e-12, atol=0)
+
+
+# ---------------------------------------------------------------------------
+# 2. model against exhaustive scan on generated scenarios
+# ---------------------------------------------------------------------------
+
+
+@GENERATED
+@given(base=scenario_dicts(), data=st.data())
+def test_generated_model_optimum_equals_scan(base, data):
+    # Independent method: exhaustive enumeration. Both must agree that there is
+    # no design, or on the least annualized cost; every pick must meet every
+    # spec and limit, and no pick may undercut the exhaustive ranking.
+    space = generated_space(base, data)
+    try:
+        scan_order, scan_best = ranking.scan(space, 3)
+    except InfeasibleSpec as exc:
+        with pytest.raises(InfeasibleSpec) as raised:
+            model.solve(space, top=3)
+        assert str(raised.value) == str(exc)
+        return
+    run = model.solve(space, top=3)
+    cost = space.designs.annualized
+    assert run.objective[0] == pytest.approx(cost[scan_order[0]], rel=1e-9)
+    assert len(set(run.order)) == len(run.order) == min(3, int(space.feasible.sum()))
+    np.testing.assert_allclose(run.objective, cost[run.order], rtol=1e-9, atol=1e-9)
+    # the i-th best of any set of distinct feasible designs costs at least the i-th best of all
+    assert np.all(np.sort(cost[run.order]) >= cost[scan_order] * (1 - 1e-12) - 1e-9)
+    picked = space.designs.take(np.array(run.order + list(run.per_agent.values())))
+    assert_meets_spec_and_limits(space.case, picked)
+    assert set(run.per_agent) == set(scan_best)
+    for a, i in run.per_agent.items():
+        assert space.designs.agent[i] == a
+        assert cost[i] >= cost[scan_best[a]] * (1 - 1e-12) - 1e-9
+
+
+@pytest.mark.xfail(strict=True, reason=(
+    "BUG: optimizer/model.py _solver/build_model: after the first solve, HiGHS (presolve off) returns "
+    "a runner-up dearer than the true one; the spec rows carry mole fractions (~1e-7) far below "
+    "HiGHS's tolerances. Fix: scale every limit row by 1/|bound| in build_model."))
+@settings(GENERATED, derandomize=True, phases=[Phase.explicit, Phase.generate])
+@given(base=scenario_dicts(), data=st.data())
+def test_generated_model_top3_equals_scan(base, data):
+    # Independent method: exhaustive enumeration; the 2nd and 3rd best must agree too.
+    space = generated_space(base, data)
+    try:
+        scan_order, _ = ranking.scan(space, 3)
+    except InfeasibleSpec:
+        return
+    run = model.solve(space, top=3)
+    assert_same_ranking(space, run.order, scan_order, rel=1e-9)
+
+
+def regression_runner_up_case() -> dict:
+    """One solvent, one solute, 5..21 trays: the smallest reproducer found for the runner-up defect."""
+    return {
+        "case": {"name": "runner-up regression", "mode": "absorb"},
+        "feed": {"flow": 4.0, "temperature": 291.0, "pressure": 3.0e5, "molar_mass": 0.029,
+                 "composition": {"a": 5e-4}},
+        "spec": [{"solute": "a", "outlet": 5e-7}],
+        "solvent": [{"name": "oil", "molar_mass": 0.03, "k": {"a": 1.6}, "price": 1.8, "density": 880.0,
+                     "viscosity": 4.5e-3, "surface_tension": 0.066, "regenerated": True, "loss": 0.004,
+                     "regeneration_steam": 0.09}],
+        "column": {"efficiency": 0.6, "trays": [5, 21], "ratio": [1.3, 5.0], "ratio_levels": 8,
+                   "larger_diameters": 0},
+        "economics": {"interest": 0.1, "life": 7.0, "steam": 0.02},
+    }
+
+
+@pytest.mark.xfail(strict=True, reason=(
+    "BUG: optimizer/model.py: the 2nd and 3rd designs of the model are not the 2nd and 3rd cheapest "
+    "(HiGHS, presolve off, on limit rows of ~1e-7 coefficients). Fix: scale limit rows by 1/|bound|."))
+def test_regression_model_runner_up_equals_scan():
+    # Independent method: exhaustive enumeration, through the public API.
+    scenario = parse_scenario(regression_runner_up_case(), "regression")
+    by_model = ranking.optimize(scenario, top=3, method="model")
+    by_scan = ranking.optimize(scenario, top=3, method="scan")
+    np.testing.assert_allclose(by_model.designs.annualized, by_scan.designs.annualized, rtol=1e-9, atol=0)
+
+
+@settings(max_examples=100, deadline=None, database=None,
+          suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large])
+@given(base=scenario_dicts(), data=st.data())
+def test_generated_dominance_reduction_keeps_top_k(base, data):
+    # Exactness of Space.undominated(k), solver-free: for any subset of the
+    # scenario's limits, the k cheapest designs meeting that subset are the
+    # same with or without the reduction (exhaustive enumeration both ways).
+    space = generated_space(base, data)
+    d = space.designs
+    limits = sp.limit_table(space.case, d)
+    chosen = data.draw(st.lists(st.booleans(), min_size=len(limits), max_size=len(limits)))
+    ok = np.ones(len(d), bool)
+    for use, limit in zip(chosen, limits):
+        if use:
+            ok &= limit.values <= limit.bound
+    k = data.draw(st.sampled_from([1, 2, 3, 5]))
+    kept = np.zeros(len(d), bool)
+    kept[space.undominated(k)] = True
+    full = np.sort(np.where(ok, d.annualized, np.inf))[:k]
+    reduced = np.sort(np.where(ok & kept, d.annualized, np.inf))[:k]
+    np.testing.assert_array_equal(reduced, full)
+
+
+# ---------------------------------------------------------------------------
+# 3. limiting economics
+# ---------------------------------------------------------------------------
+
+
+def one_solvent_absorber(**solvent) -> dict:
+    """A plain absorber: 1 ppt of solute per thousand in air, one once-through oil, 99 % removal."""
+    oil = {"name": "oil", "molar_mass": 0.2, "density": 800.0, "viscosity": 2e-3,
+           "surface_tension": 0.028, "price": 1.0, "k": {"toluene": 0.1}}
+    oil.update(solvent)
+    return {
+        "case": {"name": "limiting economics", "mode": "absorb"},
+        "feed": {"flow": 100.0, "temperature": 300.0, "pressure": 1.2e5, "molar_mass": 0.029,
+                 "composition": {"toluene": 1e-3}},
+        "spec": [{"solute": "toluene", "removal": 0.99}],
+        "solvent": [oil],
+        "column": {"trays": [2, 25], "ratio": [1.01, 10.0], "ratio_levels": 12, "efficiency": 0.5,
+                   "larger_diameters": 1},
+        "economics": {"interest": 0.1, "life": 10.0},
+    }
+
+
+def best_by_scan(data: dict) -> tuple[sp.Space, int]:
+    space = space_of(data)
+    return space, ranking.scan(space, 1)[0][0]
+
+
+def test_dear_solvent_cheap_capital_takes_most_trays_and_least_solvent():
+    # Limiting case of the solvent/stage trade-off (common practice): when
+    # solvent dominates and capital is nearly free, the optimum approaches the
+    # minimum solvent rate, i.e. the most trays allowed. Oracle: the space itself.
+    data = one_solvent_absorber(price=1.0e4)
+    data["economics"].update(interest=0.0, life=100.0)
+    space, i = best_by_scan(data)
+    d, ok = space.designs, space.feasible
+    n_max = int(d.trays[ok].max())
+    assert n_max == space.case.trays_range[1]
+    # the least rate at the most trays lies above the ratio floor, so the rate does fall with trays
+    assert d.ratio[i] > space.case.ratio_range[0] * 1.01
+    assert d.trays[i] == n_max
+    assert d.rate[i] == pytest.approx(float(d.rate[ok].min()), rel=1e-12)
+    assert model.solve(space, top=1, per_agent=False).order[0] in np.flatnonzero(
+        np.isclose(d.annualized, d.annualized[i], rtol=1e-12, atol=0))
+
+
+def test_free_solvent_takes_fewest_trays():
+    # Limiting case (common practice): with solvent, regeneration and power all
+    # free, only capital is left and the optimum moves to the fewest trays that
+    # can meet the spec. A light, dense solvent and a single standard diameter
+    # keep the liquid load from enlarging the shell. Oracle: the space itself.
+    data = one_solvent_absorber(price=0.0, molar_mass=0.018, density=1000.0)
+    data["feed"]["flow"] = 20.0
+    data["column"]["larger_diameters"] = 0
+    data["economics"].update(electricity=0.0)
+    space, i = best_by_scan(data)
+    d, ok = space.designs, space.feasible
+    assert np.unique(d.diameter[ok]).size == 1
+    assert d.operating[i] == 0.0
+    assert d.trays[i] == int(d.trays[ok].min())
+    assert d.trays[i] < space.case.trays_range[1]
+
+
+def test_dearer_solvent_never_raises_the_chosen_ratio():
+    # Exchange argument: with cost f(x) + p g(x), g the solvent mass rate, let x1
+    # be optimal at p1 and x2 at p2 > p1. Adding f1 + p1 g1 <= f2 + p1 g2 and
+    # f2 + p2 g2 <= f1 + p2 g1 gives (p2 - p1)(g2 - g1) <= 0, so g2 <= g1: a
+    # dearer solvent never raises the solvent rate, hence never raises L/Lmin
+    # (one solvent, so Lmin is fixed).
+    prices = [1e-5, 3e-5, 1e-4, 3e-4, 1e-3]
+    ratios, trays = [], []
+    for price in prices:
+        space, i = best_by_scan(one_solvent_absorber(price=price))
+        ratios.append(float(space.designs.ratio[i]))
+        trays.append(int(space.designs.trays[i]))
+    assert all(b <= a * (1 + 1e-12) for a, b in zip(ratios, ratios[1:])), ratios
+    assert ratios[-1] < ratios[0], "the sweep should move the optimum"
+    assert trays[-1] > trays[0]
+
+
+# ---------------------------------------------------------------------------
+# 4.-7. the bundled demo cases through the public API
+# ---------------------------------------------------------------------------
+
+
+@pytest.fixture(scope="module", params=[ABSORBER, STRIPPER], ids=["absorber", "stripper"])
+def optimized(request):
+    return ranking.optimize(load_scenario(request.param), top=10, method="model")
+
+
+@pytest.fixture(scope="module")
+def absorber_result():
+    return ranking.optimize(load_scenario(ABSORBER), top=10, method="model")
+
+
+def test_demo_absorber_economic_ratio_rule_of_thumb(absorber_result):
+    best = absorber_result.best
+    # Source: Perry's Chemical Engineers' Handbook, Section 14 (design absorber
+    # rate about 1.2 to 1.5 x minimum; value from memory); a band of 1.1 to 2.0 here.
+    assert 1.1 <= float(best.ratio[0]) <= 2.0
+
+
+def test_demo_absorber_absorption_factor_rule_of_thumb(absorber_result):
+    case, best = absorber_result.case, absorber_result.best
+    toluene = case.solutes.index("toluene")
+    agent = int(best.agent[0])
+    # toluene controls: its pinch asks for the larger solvent rate and its outlet sits on the spec
+    phi = sp.target_fraction(case, np.array([agent]))[0]
+    pinch = (1.0 - phi) * case.k_value[agent] * case.feed_flow
+    assert int(np.argmax(pinch)) == toluene
+    assert float(best.outlet[0, toluene]) == pytest.approx(case.target[toluene], rel=1e-6)
+    # Common practice: an absorption factor of about 1.2 to 2.0 for the controlling solute.
+    assert 1.2 <= float(best.factor[0, toluene]) <= 2.0
+
+
+def test_reported_best_is_exact(optimized):
+    assert optimized.solver["difference"] < 1e-6
+    case, best = optimized.case, optimized.best
+    fresh = sp.evaluate(case, best.agent, best.trays, best.rate, best.diameter)
+    for name in ("annualized", "installed", "operating", "electric_power", "outlet", "fraction_of_flood"):
+        np.testing.assert_allclose(getattr(fresh, name), getattr(best, name), rtol=1e-12, atol=0)
+    # a fresh evaluation at the least standard diameter is no wider than the reported one
+    least = sp.evaluate(case, best.agent, best.trays, best.rate)
+    assert least.diameter[0] <= best.diameter[0] + 1e-12
+    if least.diameter[0] == pytest.approx(best.diameter[0], abs=1e-12):
+        assert least.annualized[0] == pytest.approx(best.annualized[0], rel=1e-12)
+
+
+def test_reported_best_equals_space_entry(bundled):
+    # The batch evaluation of the whole space and the single-point re-evaluation agree.
+    scenario, space = bundled
+    result = ranking.optimize(scenario, top=1, method="scan")
+    i = ranking.scan(space, 1)[0][0]
+    assert result.best.annualized[0] == pytest.approx(space.designs.annualized[i], rel=1e-12)
+    assert result.best.trays[0] == space.designs.trays[i]
+    assert result.best.rate[0] == pytest.approx(space.designs.rate[i], rel=1e-15)
+
+
+def test_every_returned_design_meets_spec_and_limits(optimized):
+    assert_meets_spec_and_limits(optimized.case, optimized.designs)
+    assert_meets_spec_and_limits(optimized.case, optimized.per_agent)
+    np.testing.assert_array_equal(np.diff(optimized.designs.annualized) >= 0, True)
+
+
+def test_demo_absorber_limits_are_met_when_they_bite():
+    raw = raw_scenario(ABSORBER)
+    free = ranking.optimize(parse_scenario(copy.deepcopy(raw)), top=1, method="scan").best
+    raw["economics"]["capital_budget"] = float(free.installed[0]) * 0.95
+    raw["economics"]["max_power"] = float(free.electric_power[0]) * 1.05
+    raw["column"]["max_height"] = float(free.height[0]) - 1.0
+    result = ranking.optimize(parse_scenario(raw), top=10, method="model")
+    assert result.best.annualized[0] > free.annualized[0]
+    assert_meets_spec_and_limits(result.case, result.designs)
+
+
+# ---------------------------------------------------------------------------
+# 5. infeasible cases
+# ---------------------------------------------------------------------------
+
+
+def unreachable_toluene(solvents) -> dict:
+    raw = raw_scenario(ABSORBER)
+    raw["solvent"] = [raw["solvent"][i] for i in solvents]
+    raw["spec"][0]["outlet"] = 1e-12
+    raw["column"]["trays"] = [2, 3]
+    return raw
+
+
+@pytest.mark.parametrize("method", ["model", "scan"])
+def test_unreachable_spec_says_even_at_max_trays(method):
+    scenario = parse_scenario(unreachable_toluene([2]), "unreachable")   # glycol ether: clean solvent
+    with pytest.raises(InfeasibleSpec) as raised:
+        ranking.optimize(scenario, method=method)
+    message = str(raised.value)
+    assert "even at 3 trays" in message
+    assert "toluene" in message and "glycol ether" in message
+
+
+@pytest.mark.xfail(strict=True, reason=(
+    "BUG: optimizer/space.py infeasible_reason: for a solvent whose lean loading alone breaks the spec, "
+    "minimum_rate is inf and outlet() is called with rate inf, so models/kremser.py "
+    "_remaining_and_removed divides inf by inf (RuntimeWarning, an error under the test settings) "
+    "before the reason is written. Fix: evaluate outlet() only where the rate is finite."))
+@pytest.mark.parametrize("method", ["model", "scan"])
+def test_unreachable_spec_with_loaded_solvents(method):
+    scenario = parse_scenario(unreachable_toluene([0, 1, 2]), "unreachable")
+    with pytest.raises(InfeasibleSpec) as raised:
+        ranking.optimize(scenario, method=method)
+    assert "even at 3 trays" in str(raised.value)
+    assert "lean loading" in str(raised.value)
+
+
+@pytest.mark.parametrize("method", ["model", "scan"])
+def test_budget_below_every_design_names_the_limit(method):
+    raw = raw_scenario(ABSORBER)
+    raw["economics"]["capital_budget"] = "1000 USD"
+    with pytest.raises(InfeasibleSpec) as raised:
+        ranking.optimize(parse_scenario(raw), method=method)
+    message = str(raised.value)
+    assert "installed cost at most 1000 USD" in message
+    assert "above the limit" in message
+
+
+@pytest.mark.xfail(strict=True, reason=(
+    "BUG: optimizer/space.py build_space/evaluate: when the feed already meets every spec the least "
+    "rate is 0 and evaluate() prices a zero-size pump, so a bare ValueError from models/costing.py "
+    "escapes instead of a ScenarioError or InfeasibleSpec saying no column is needed."))
+def test_spec_already_met_by_feed_is_reported():
+    data = one_solvent_absorber()
+    data["spec"] = [{"solute": "toluene", "outlet": 2e-3}]     # feed holds 1e-3
+    with pytest.raises((ScenarioError, InfeasibleSpec)):
+        ranking.optimize(parse_scenario(data), top=3)
