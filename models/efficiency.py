@@ -170,7 +170,7 @@ def oconnell_distillation(
     return coefficient * group**exponent
 
 
-def overall_from_murphree(murphree_vapour, factor):
+def overall_from_murphree(murphree_vapour, slope_ratio):
     r"""Overall tray efficiency from the Murphree vapour efficiency (Lewis).
 
         E_o = ln[1 + E_MV (lambda - 1)] / ln(lambda),   E_o = E_MV at lambda = 1
@@ -182,8 +182,9 @@ def overall_from_murphree(murphree_vapour, factor):
     ----------
     murphree_vapour : array_like
         Murphree vapour efficiency E_MV [-], in (0, 1].
-    factor : array_like
-        lambda = K V / L [-], > 0.
+    slope_ratio : array_like
+        lambda = K V / L [-], > 0: the reciprocal of the absorption factor
+        for an absorber, the stripping factor for a stripper.
 
     Returns
     -------
@@ -208,9 +209,15 @@ def overall_from_murphree(murphree_vapour, factor):
     0.765535
     >>> float(overall_from_murphree(0.7, 1.0))
     0.7
+
+    An absorber at A = 2 with E_MV = 0.40 (lambda = 0.5) gives E_o = 0.3219,
+    as in the calculatoratoz.com evaluation cited in the tests:
+
+    >>> round(float(overall_from_murphree(0.40, 0.5)), 4)
+    0.3219
     """
     efficiency = np.asarray(murphree_vapour, dtype=float)
-    factor = np.asarray(factor, dtype=float)
+    factor = np.asarray(slope_ratio, dtype=float)
     if np.any(efficiency <= 0.0) or np.any(efficiency > 1.0):
         raise ValueError(f"Murphree vapour efficiency must be in (0, 1], got {murphree_vapour}")
     if np.any(factor <= 0.0):

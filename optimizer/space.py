@@ -287,9 +287,9 @@ def _stages(case: Case, agent, trays, factor):
     trays = np.asarray(trays, dtype=float)[..., None]
     if case.murphree is None:
         return trays * case.efficiency[agent]
-    # Lewis: lambda = 1/A (absorber) or S (stripper); the efficiency module takes the factor
-    lam_factor = factor if case.mode == "absorb" else 1.0 / factor
-    return trays * efficiency.overall_from_murphree(case.murphree, lam_factor)
+    # Lewis: lambda = K V / L, the reciprocal of A for an absorber, S itself for a stripper.
+    slope_ratio = 1.0 / factor if case.mode == "absorb" else factor
+    return trays * efficiency.overall_from_murphree(case.murphree, slope_ratio)
 
 
 def minimum_rate(case: Case, agent):

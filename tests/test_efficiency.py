@@ -212,3 +212,10 @@ def test_real_trays_validates_efficiency():
         with pytest.raises(ValueError, match="efficiency"):
             real_trays(5.0, bad)
     np.testing.assert_allclose(real_trays(np.array([3.0, 6.0]), np.array([1.0, 0.5])), [3.0, 12.0])
+
+
+def test_lewis_reproduces_a_published_calculation():
+    # Source: calculatoratoz.com, "Overall Tray Efficiency for Absorption Column Based on
+    # Murphree Efficiency" worked evaluation: E_MV = 40 %, A = 2 gives E_o = 32.1928094887362 %.
+    # lambda = K V / L = 1 / A = 0.5.
+    assert math.isclose(float(overall_from_murphree(0.40, 0.5)), 0.321928094887362, rel_tol=1e-12)

@@ -1,0 +1,143 @@
+"""The design space: separation figures against independent solutions, least rates, reduction."""
+
+from __future__ import annotations
+
+import copy
+import math
+import tomllib
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from models import kremser
+from optimizer import space as sp
+from optimizer.scenario import parse_scenario
+
+ROOT = Path(__file__).resolve().parents[1]
+ABSORBER = tomllib.loads((ROOT / "scenarios" / "demo_absorber.toml").read_text(encoding="utf-8"))
+STRIPPER = tomllib.loads((ROOT / "scenarios" / "demo_air_stripper.toml").read_text(encoding="utf-8"))
+
+
+def case_of(data: dict, **column) -> sp.Case:
+    data = copy.deepcopy(data)
+    data["column"].update(column)
+    return sp.prepare(parse_scenario(data, "test.toml"))
+
+
+def murphree_cascade(n_trays, liquid, gas, k_value, murphree, gas_in, liquid_in):
+    """Treated-gas outlet of n real trays with Murphree vapour efficiency, solved as a linear system.
+
+    Independent of the Kremser relation and of the Lewis relation: the 2n
+    equations are, for trays j = 1..n counted from the top,
+    y_j - (1 - E) y_{j+1} - E K x_j = 0 and L x_{j-1} + V y_{j+1} = L x_j + V y_j,
+    with x_0 the entering liquid and y_{n+1} the entering gas.
+    """
+    n = n_trays
+    matrix = np.zeros((2 * n, 2 * n))
+    rhs = np.zeros(2 * n)
+    ix, iy = np.arange(n), n + np.arange(n)
+    rows = np.arange(n)
+    matrix[rows, iy] = 1.0
+    matrix[rows, ix] = -murphree * k_value
+    matrix[rows[:-1], iy[1:]] = -(1.0 - murphree)
+    rhs[n - 1] = (1.0 - murphree) * gas_in
+    balance = n + rows
+    matrix[balance, ix] = -liquid
+    matrix[balance, iy] = -gas
+    matrix[balance[1:], ix[:-1]] = liquid
+    matrix[balance[:-1], iy[1:]] = gas
+    rhs[n] += -liquid * liquid_in
+    rhs[2 * n - 1] += -gas * gas_in
+    solution = np.linalg.solve(matrix, rhs)
+    return solution[iy[0]], solution[ix[-1]]
+
+
+@pytest.mark.parametrize("trays, ratio", [(4, 1.3), (12, 1.6), (25, 2.5)])
+def test_murphree_absorber_matches_tray_by_tray_solution(trays, ratio):
+    # Independent method: the real-tray balances with Murphree vapour efficiency
+    # solved as a linear system (numpy.linalg.solve), lean solvent not solute-free.
+    case = case_of(ABSORBER, efficiency={"murphree": 0.55})
+    agent = 0
+    rate = ratio * float(sp.minimum_rate(case, np.array([agent]))[0])
+    designs = sp.evaluate(case, [agent], [trays], [rate])
+    for s in range(len(case.solutes)):
+        y_out, _ = murphree_cascade(trays, rate, case.feed_flow, case.k_value[agent, s], 0.55,
+                                    case.feed_in[s], case.lean[agent, s])
+        assert designs.outlet[0, s] == pytest.approx(y_out, rel=1e-9)
+
+
+@pytest.mark.parametrize("trays", [3, 10, 30])
+def test_murphree_stripper_matches_tray_by_tray_solution(trays):
+    # The same linear system with the roles of the phases exchanged: the
+    # stripping gas rises through the liquid feed. Unknowns solved for the
+    # liquid leaving the bottom tray.
+    case = case_of(STRIPPER, efficiency={"murphree": 0.7})
+    agent = 0
+    rate = 2.0 * float(sp.minimum_rate(case, np.array([agent]))[0])
+    designs = sp.evaluate(case, [agent], [trays], [rate])
+    for s in range(len(case.solutes)):
+        _, x_out = murphree_cascade(trays, case.feed_flow, rate, case.k_value[agent, s], 0.7,
+                                    case.lean[agent, s], case.feed_in[s])
+        assert designs.outlet[0, s] == pytest.approx(x_out, rel=1e-9)
+
+
+@pytest.mark.parametrize("efficiency", [0.4, "oconnell", {"murphree": 0.6}])
+@pytest.mark.parametrize("data", [ABSORBER, STRIPPER], ids=["absorb", "strip"])
+def test_least_rate_meets_the_binding_spec_exactly(data, efficiency):
+    # The least rate at each tray count meets every spec, and the controlling
+    # solute sits on its spec (to the bisection or Newton tolerance).
+    case = case_of(data, efficiency=efficiency)
+    trays = np.arange(6, 30)
+    agents = np.zeros_like(trays)
+    rate = sp.least_rate(case, agents, trays)
+    assert np.all(np.isfinite(rate))
+    out, _, _ = sp.outlet(case, agents, trays, rate)
+    slack = out / case.target
+    assert np.all(slack <= 1 + 1e-9)
+    assert np.allclose(slack.max(axis=1), 1.0, rtol=1e-8)
+    # a rate 0.1 % lower misses the spec
+    out_low, _, _ = sp.outlet(case, agents, trays, rate * 0.999)
+    assert np.all((out_low / case.target).max(axis=1) > 1.0)
+
+
+def test_minimum_rate_is_the_pinch_of_the_controlling_solute():
+    # Independent form: kremser.minimum_liquid_rate for each solute, the largest governs.
+    case = case_of(ABSORBER)
+    for agent in range(len(case.agents)):
+        each = [
+            kremser.minimum_liquid_rate(case.feed_flow, case.k_value[agent, s], case.feed_in[s],
+                                        case.target[s], case.lean[agent, s])
+            for s in range(len(case.solutes))
+        ]
+        assert float(sp.minimum_rate(case, np.array([agent]))[0]) == pytest.approx(max(map(float, each)), rel=1e-12)
+
+
+def test_reduction_keeps_the_exact_top_k_under_binding_limits():
+    # A budget and a diameter limit that bind: the k best of the reduced set
+    # equal the k best of the whole space.
+    data = copy.deepcopy(ABSORBER)
+    data["economics"]["capital_budget"] = "700 kUSD"
+    data["column"]["max_diameter"] = "2.2 m"
+    case = sp.prepare(parse_scenario(data, "test.toml"))
+    space = sp.build_space(case)
+    cost = np.where(space.feasible, space.designs.annualized, np.inf)
+    for k in (1, 5, 20):
+        kept = space.undominated(k)
+        full = np.sort(cost)[:k]
+        reduced = np.sort(cost[kept])[:k]
+        assert np.array_equal(full, reduced)
+        assert kept.size < len(space.designs)
+
+
+def test_wider_shell_runs_further_from_flood():
+    case = case_of(ABSORBER)
+    space = sp.build_space(case)
+    d = space.designs
+    first = np.flatnonzero(space.least)[0]
+    same = np.flatnonzero((d.agent == d.agent[first]) & (d.trays == d.trays[first]) & (d.rate == d.rate[first]))
+    order = same[np.argsort(d.diameter[same])]
+    assert order.size == 1 + case.larger_diameters
+    assert np.all(np.diff(d.fraction_of_flood[order]) < 0)
+    assert np.all(np.diff(d.pressure_drop[order]) < 0)
+    assert math.isclose(d.diameter[order[1]] - d.diameter[order[0]], 0.1524, rel_tol=1e-12)
