@@ -18,6 +18,7 @@ from rich.console import Console
 from rich.table import Table
 
 from optimizer.space import Case, Designs
+from optimizer.units import mole_fraction_text
 
 CAUTION = (
     "Preliminary estimate only (order of magnitude to study grade). Mechanical, "
@@ -34,19 +35,6 @@ def _ratio_word(case: Case) -> str:
 
 def _factor_word(case: Case) -> str:
     return "A" if case.mode == "absorb" else "S"
-
-
-def _frac(value: float) -> str:
-    """A mole fraction in ppmv, ppbv or %."""
-    if not math.isfinite(value):
-        return "-"
-    if value == 0:
-        return "0"
-    if value < 1e-6:
-        return f"{value * 1e9:.3g} ppbv"
-    if value < 1e-3:
-        return f"{value * 1e6:.4g} ppmv"
-    return f"{value * 100:.4g} %"
 
 
 def _money(value: float) -> str:
@@ -257,7 +245,7 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
         inlet, out, target = case.feed_in[s], d.outlet[i, s], case.target[s]
         mark = "" if out <= target * (1 + 1e-9) else "  (misses)"
         sep.add_row(name, f"{case.k_value[a, s]:.4g}", f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}",
-                    _frac(inlet), _frac(out) + mark, _frac(target), f"{100 * (1 - out / inlet):.3f} %")
+                    mole_fraction_text(inlet), mole_fraction_text(out) + mark, mole_fraction_text(target), f"{100 * (1 - out / inlet):.3f} %")
     console.print(sep)
 
     col = _table("Column (estimating figures, not a mechanical design)", "item", "value", right=(1,))

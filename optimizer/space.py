@@ -30,7 +30,7 @@ import numpy as np
 from models import costing, economics, efficiency, equilibrium, hydraulics, kremser, vessel
 from optimizer.errors import InfeasibleSpec, ScenarioError
 from optimizer.scenario import Scenario, gas_density
-from optimizer.units import STANDARD_ATMOSPHERE
+from optimizer.units import STANDARD_ATMOSPHERE, mole_fraction_text
 
 #: Standard acceleration of gravity [m/s2] (CGPM 1901 conventional value).
 GRAVITY = 9.80665
@@ -722,15 +722,6 @@ def concatenate(parts: list[Designs]) -> Designs:
     return Designs(**values, warnings=merged)
 
 
-def _fraction_text(value: float) -> str:
-    """A mole fraction as an engineer writes it: ppmv below 0.1 %, else %."""
-    if value < 1e-6:
-        return f"{value * 1e9:.3g} ppbv"
-    if value < 1e-3:
-        return f"{value * 1e6:.3g} ppmv"
-    return f"{value * 100:.3g} %"
-
-
 def infeasible_reason(space: Space) -> str:
     """Why no alternative of ``space`` qualifies, with the best reachable figures, in one line."""
     case = space.case
@@ -748,7 +739,7 @@ def infeasible_reason(space: Space) -> str:
         out, _, _ = outlet(case, agents, np.full(agents.shape, n_max), np.where(np.isfinite(rate), rate, 1.0))
         for a, name in enumerate(case.agents):
             misses = [
-                f"{case.solutes[s]} {_fraction_text(out[a, s])} (spec {_fraction_text(case.target[s])})"
+                f"{case.solutes[s]} {mole_fraction_text(out[a, s])} (spec {mole_fraction_text(case.target[s])})"
                 for s in range(len(case.solutes)) if out[a, s] > case.target[s] * (1 + 1e-9)
             ]
             if not np.isfinite(rate[a]):

@@ -129,3 +129,22 @@ def dimension_of(value) -> str | None:
         return str(registry().Quantity(1.0, _pint_text(text)).dimensionality)
     except Exception:  # noqa: BLE001 - an unknown unit is reported by to_si
         return None
+
+
+def mole_fraction_text(value: float) -> str:
+    """A mole fraction as an engineer writes it: ppbv, ppmv or %.
+
+    >>> mole_fraction_text(2.5e-5), mole_fraction_text(4e-8), mole_fraction_text(0.012)
+    ('25 ppmv', '40 ppbv', '1.2 %')
+    """
+    import math
+
+    if not math.isfinite(value):
+        return "-"
+    if value == 0:
+        return "0"
+    if value < 1e-6:
+        return f"{value * 1e9:.3g} ppbv"
+    if value < 1e-3:
+        return f"{value * 1e6:.4g} ppmv"
+    return f"{value * 100:.4g} %"
