@@ -69,8 +69,12 @@ def build_model(space: Space, index: np.ndarray):
     by_name = {c.name: c for c in limits}
 
     def limit_rule(model, name):                                 # sum_d value[c, d] pick[d] <= bound[c]
+        # Each row is divided by |bound|: an outlet spec of 1e-9 would otherwise sit far
+        # below HiGHS's feasibility tolerance (1e-7) and be met by any design.
         c = by_name[name]
-        return LinearExpression(constant=0.0, linear_coefs=c.values.tolist(), linear_vars=picks) <= c.bound
+        scale = 1.0 / abs(c.bound) if c.bound != 0 else 1.0 / max(float(np.max(np.abs(c.values))), 1e-300)
+        return (LinearExpression(constant=0.0, linear_coefs=(c.values * scale).tolist(), linear_vars=picks)
+                <= c.bound * scale)
 
     m.limit = pyo.Constraint(m.LIMITS, rule=limit_rule)
     m.annualized_cost = pyo.Objective(                           # total annualized cost [USD/yr]

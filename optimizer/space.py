@@ -218,11 +218,17 @@ def prepare(scenario: Scenario) -> Case:
         except ValueError as exc:
             raise ScenarioError(f"[economics] cost_year: {exc}") from None
 
+    target = _targets(scenario)
+    feed_in = np.array([feed.composition[s] for s in solutes])
+    if np.all(target >= feed_in):
+        shown = ", ".join(f"{s} {mole_fraction_text(x)} in, {mole_fraction_text(t)} allowed"
+                          for s, x, t in zip(solutes, feed_in, target) if np.isfinite(t))
+        raise ScenarioError(f"[[spec]]: the feed already meets every spec ({shown}); no column is needed")
     shell = col.existing_shell
     return Case(
         name=scenario.case.name, mode=mode, agents=tuple(a.name for a in agents), solutes=tuple(solutes),
         feed_flow=feed.flow, temperature=feed.temperature, pressure=feed.pressure,
-        feed_in=np.array([feed.composition[s] for s in solutes]), target=_targets(scenario),
+        feed_in=feed_in, target=target,
         k_value=k_value, lean=lean, efficiency=eff, murphree=murphree,
         liquid_molar_mass=liquid_m, liquid_density=liquid_rho, liquid_viscosity=liquid_mu,
         surface_tension=sigma, gas_molar_mass=gas_m, gas_density=np.asarray(rho_gas, dtype=float),
