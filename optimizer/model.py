@@ -6,7 +6,8 @@ Formulation (one tower, discrete alternatives from ``optimizer.space``):
                  C                       limits of the scenario (``space.limit_table``)
     parameters   cost[d]                 total annualized cost [USD/yr], exact, from models/
                  value[c, d], bound[c]   the limited quantity of d and its bound
-    variables    pick[d] in {0, 1}       1 for the chosen design
+    variables    pick[d] in {0, 1}       1 for the chosen design (solved as its LP
+                                         relaxation first; exact when that is integral)
     constraints  one_design:  sum_d pick[d] = 1
                  limit[c]:    sum_d value[c, d] pick[d] <= bound[c]      for c in C
     objective    minimize     sum_d cost[d] pick[d]
@@ -60,7 +61,8 @@ def build_model(space: Space, index: np.ndarray):
     cost = d.annualized.tolist()
     m = pyo.ConcreteModel("annualized cost")
     m.DESIGNS = pyo.RangeSet(0, len(index) - 1)                 # one entry per alternative
-    m.pick = pyo.Var(m.DESIGNS, within=pyo.Binary)               # 1 for the chosen design
+    m.pick = pyo.Var(m.DESIGNS, within=pyo.UnitInterval)         # 1 for the chosen design (binary; see _solve_once)
+    m.is_mip = False                                             # True once the binaries are restored
     picks = [m.pick[i] for i in range(len(index))]
     m.one_design = pyo.Constraint(expr=LinearExpression(constant=0.0, linear_coefs=[1.0] * len(picks),
                                                         linear_vars=picks) == 1)
@@ -102,18 +104,42 @@ def _solver():
 
 
 def _solve_once(opt, m):
-    """Solve; return the chosen position and the objective, or None if infeasible."""
+    """Solve; return the chosen position and the objective, or None if infeasible.
+
+    The relaxation (0 <= pick <= 1) is solved first: it is an LP, and when
+    its optimum is integral, as it is unless a limit binds between two
+    designs, that optimum is the MIP optimum as well. Otherwise the binaries
+    are restored and HiGHS solves the MIP with both gaps at zero; the model
+    stays a MIP from then on.
+    """
     from pyomo.contrib.appsi.base import TerminationCondition
 
-    result = opt.solve(m)
-    if result.termination_condition != TerminationCondition.optimal:
-        if result.termination_condition in (TerminationCondition.infeasible,
-                                             TerminationCondition.infeasibleOrUnbounded):
+    while True:
+        result = opt.solve(m)
+        condition = result.termination_condition
+        if condition in (TerminationCondition.infeasible, TerminationCondition.infeasibleOrUnbounded):
             return None
-        raise RuntimeError(f"HiGHS stopped with {result.termination_condition.name}")
-    result.solution_loader.load_vars()
-    values = np.array([v.value or 0.0 for v in m.pick.values()])
-    return int(np.argmax(values)), float(result.best_feasible_objective)
+        if condition != TerminationCondition.optimal:
+            if not m.is_mip:  # let the MIP settle what the relaxation could not
+                _restore_binaries(opt, m)
+                continue
+            raise RuntimeError(f"HiGHS stopped with {condition.name}")
+        result.solution_loader.load_vars()
+        values = np.array([v.value or 0.0 for v in m.pick.values()])
+        integral = np.all((values < 1e-9) | (values > 1 - 1e-9))
+        if integral or m.is_mip:
+            return int(np.argmax(values)), float(result.best_feasible_objective)
+        _restore_binaries(opt, m)
+
+
+def _restore_binaries(opt, m) -> None:
+    import pyomo.environ as pyo
+
+    m.is_mip = True
+    picks = list(m.pick.values())
+    for v in picks:
+        v.domain = pyo.Binary
+    opt.update_variables(picks)
 
 
 def solve(space: Space, top: int = 1, *, per_agent: bool = True, reduce: bool = True) -> ModelRun:
