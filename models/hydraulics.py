@@ -445,12 +445,13 @@ def standard_diameter(diameter, increment=STANDARD_DIAMETER_STEP, minimum=0.4572
 
     Examples
     --------
-    >>> standard_diameter([0.30, 0.8436, 1.2192]).round(4).tolist()
+    >>> standard_diameter([0.30, 0.8436, 1.2192]).tolist()
     [0.4572, 0.9144, 1.2192]
     """
     required = np.asarray(diameter, dtype=float)
     steps = np.ceil(required / increment - 1e-9)
-    return np.maximum(minimum, steps * increment)
+    # Rounded to the micrometre so that 6 x 0.1524 is 0.9144 and not 0.9144000000000001.
+    return np.round(np.maximum(minimum, steps * increment), 6)
 
 
 def column_height(trays, tray_spacing=0.6096, top_space=1.2, bottom_space=1.8):

@@ -22,7 +22,10 @@ designs often lie within 1e-4 of each other.
 
 The k best distinct designs come from the model itself: after each solve the
 chosen design is excluded (its upper bound set to 0, the no-good cut of a
-one-hot choice) and the persistent solver solves again.
+one-hot choice) and the persistent solver solves again. A pick is checked
+against the exact limits (numpy, as the scan does); one that meets a limit
+only within the solver's feasibility tolerance is excluded the same way and
+not reported.
 
 Pyomo objects never leave this module; ``pyomo.environ`` is imported inside
 the functions that need it (it costs about 0.4 s).
@@ -160,16 +163,18 @@ def solve(space: Space, top: int = 1, *, per_agent: bool = True, reduce: bool = 
     built = time.perf_counter()
     order, objective, solves = [], [], 0
     picks = list(m.pick.values())
-    for _ in range(top):
+    while len(order) < top:
         found = _solve_once(opt, m)
         solves += 1
         if found is None:
             break
         position, value = found
-        order.append(int(index[position]))
-        objective.append(value)
         picks[position].setub(0)                       # no-good cut for a one-hot choice
         opt.update_variables([picks[position]])
+        if not space.feasible[index[position]]:
+            continue  # met a limit only within the solver's tolerance: excluded, solve again
+        order.append(int(index[position]))
+        objective.append(value)
     if not order:
         raise InfeasibleSpec(infeasible_reason(space))
     best_of: dict[int, int] = {}
@@ -186,13 +191,20 @@ def solve(space: Space, top: int = 1, *, per_agent: bool = True, reduce: bool = 
             for p in others:
                 p.setub(0)
             opt1.update_variables(others)
-            found = _solve_once(opt1, m1)
-            solves += 1
+            excluded = []
+            while True:
+                found = _solve_once(opt1, m1)
+                solves += 1
+                if found is None or space.feasible[small[found[0]]]:
+                    break
+                excluded.append(picks1[found[0]])  # within tolerance only: exclude, solve again
+                excluded[-1].setub(0)
+                opt1.update_variables(excluded[-1:])
             if found is not None:
                 best_of[int(a)] = int(small[found[0]])
-            for p in others:
+            for p in others + excluded:
                 p.setub(1)
-            opt1.update_variables(others)
+            opt1.update_variables(others + excluded)
     done = time.perf_counter()
     return ModelRun(order=order, objective=objective, alternatives=int(index.size),
                     alternatives_total=len(space.designs), build_seconds=built - start,

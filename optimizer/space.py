@@ -600,7 +600,8 @@ def limit_table(case: Case, d) -> list[Limit]:
     ]
     for name, what, values, bound, unit in optional:
         if bound is not None and np.isfinite(bound):
-            table.append(Limit(name, f"{what} at most {bound:.4g} {unit}".strip(), values, float(bound)))
+            # the same relative slack of 1e-9 as the spec and flood limits: rounding, not engineering
+            table.append(Limit(name, f"{what} at most {bound:.4g} {unit}".strip(), values, float(bound) * (1 + 1e-9)))
     return table
 
 
@@ -706,7 +707,8 @@ def build_space(case: Case, agents=None) -> Space:
     base = evaluate(case, grid_agent[group], grid_trays[group], rate)
     if case.shell_diameter is None and case.larger_diameters > 0:
         steps = np.arange(1, case.larger_diameters + 1)
-        wider = (base.diameter[:, None] + steps[None, :] * hydraulics.STANDARD_DIAMETER_STEP).ravel()
+        wider = hydraulics.standard_diameter(
+            base.diameter[:, None] + steps[None, :] * hydraulics.STANDARD_DIAMETER_STEP).ravel()
         repeat = np.repeat(np.arange(len(base)), steps.size)
         extra = evaluate(case, base.agent[repeat], base.trays[repeat], base.rate[repeat], wider)
         designs = concatenate([base, extra])
@@ -751,7 +753,8 @@ def infeasible_reason(space: Space) -> str:
             if not np.isfinite(rate[a]):
                 lean = [case.solutes[s] for s in range(len(case.solutes))
                         if np.isfinite(case.target[s]) and _equilibrium_inlet(case, a)[s] >= case.target[s]]
-                misses = [f"its lean loading already sets {', '.join(lean)} above the spec"]
+                parts.append(f"{name!r} cannot: its lean loading alone puts {', '.join(lean)} above the spec")
+                continue
             parts.append(f"{name!r} reaches {', '.join(misses) or 'the spec only outside the ratio range'}")
         return (f"no design meets the spec: even at {n_max} trays and {hi:g} x {word.split('/')[1]} "
                 + "; ".join(parts) + "; allow more trays, a wider ratio range or add a candidate")
