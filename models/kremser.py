@@ -562,28 +562,39 @@ def absorb(factor, stages, gas_in, liquid_in=0.0, k_value=None, *, warnings: lis
     >>> round(float(out.gas_out), 12), round(float(out.liquid_out), 12)
     (0.001, 0.006)
     """
-    (factor, stages, gas_in, liquid_in), shape = _as_float(factor, stages, gas_in, liquid_in)
-    if k_value is None and np.any(liquid_in != 0.0):
+    if k_value is None and np.any(np.asarray(liquid_in) != 0.0):
         raise ValueError("absorb needs k_value when the entering solvent carries solute (liquid_in != 0)")
-    remaining, removed = _remaining_and_removed(factor, stages)
     check_range("solute mole fraction in the entering gas", gas_in, 0.0, _DILUTE_LIMIT, "-", _DILUTE_SOURCE, warnings)
+    gas_out, liquid_out, remaining, removed = _cascade(factor, stages, gas_in, liquid_in, k_value, invert=False)
+    if liquid_out is not None:
+        check_range("solute mole fraction in the leaving liquid", liquid_out, 0.0, _DILUTE_LIMIT, "-",
+                    _DILUTE_SOURCE, warnings)
+    return Cascade(gas_out, liquid_out, remaining, removed)
+
+
+def _cascade(factor, stages, treated_in, other_in, k_value, *, invert: bool):
+    """Outlets of either cascade, by the treated stream and the agent stream.
+
+    The entering agent holds the treated stream at ``eq = c * other_in`` and
+    the agent leaves with ``other_in + removed * (treated_in - eq) / (F c)``,
+    where c = K for an absorber (treated = gas) and c = 1 / K for a stripper
+    (treated = liquid; ``invert``). Returns flat-shaped (treated_out,
+    other_out or None, fraction remaining and removed of the entering solute).
+    """
+    (factor, stages, treated_in, other_in), shape = _as_float(factor, stages, treated_in, other_in)
+    remaining, removed = _remaining_and_removed(factor, stages)
     if k_value is None:
-        gas_out = remaining * gas_in
-        return Cascade(_shaped(gas_out, shape), None, _shaped(remaining, shape), _shaped(removed, shape))
+        return (_shaped(remaining * treated_in, shape), None, _shaped(remaining, shape), _shaped(removed, shape))
     (k, _), _ = _as_float(k_value, np.zeros(shape))
-    equilibrium = k * liquid_in
-    driving = gas_in - equilibrium
-    gas_out = equilibrium + remaining * driving
-    liquid_out = liquid_in + removed * driving / (factor * k)
+    conversion = 1.0 / k if invert else k
+    equilibrium = conversion * other_in
+    driving = treated_in - equilibrium
+    treated_out = equilibrium + remaining * driving
+    other_out = other_in + removed * driving / (factor * conversion)
     with np.errstate(divide="ignore", invalid="ignore"):
-        removed_of_feed = removed * driving / gas_in
-    check_range("solute mole fraction in the leaving liquid", liquid_out, 0.0, _DILUTE_LIMIT, "-", _DILUTE_SOURCE, warnings)
-    return Cascade(
-        _shaped(gas_out, shape),
-        _shaped(liquid_out, shape),
-        _shaped(1.0 - removed_of_feed, shape),
-        _shaped(removed_of_feed, shape),
-    )
+        removed_of_feed = removed * driving / treated_in
+    return (_shaped(treated_out, shape), _shaped(other_out, shape), _shaped(1.0 - removed_of_feed, shape),
+            _shaped(removed_of_feed, shape))
 
 
 def strip(factor, stages, liquid_in, gas_in=0.0, k_value=None, *, warnings: list[str] | None = None):
@@ -630,28 +641,15 @@ def strip(factor, stages, liquid_in, gas_in=0.0, k_value=None, *, warnings: list
     >>> round(float(out.liquid_out), 12), round(float(out.gas_out), 12)
     (0.001, 0.03)
     """
-    (factor, stages, liquid_in, gas_in), shape = _as_float(factor, stages, liquid_in, gas_in)
-    if k_value is None and np.any(gas_in != 0.0):
+    if k_value is None and np.any(np.asarray(gas_in) != 0.0):
         raise ValueError("strip needs k_value when the entering stripping gas carries solute (gas_in != 0)")
-    remaining, removed = _remaining_and_removed(factor, stages)
-    check_range("solute mole fraction in the entering liquid", liquid_in, 0.0, _DILUTE_LIMIT, "-", _DILUTE_SOURCE, warnings)
-    if k_value is None:
-        liquid_out = remaining * liquid_in
-        return Cascade(None, _shaped(liquid_out, shape), _shaped(remaining, shape), _shaped(removed, shape))
-    (k, _), _ = _as_float(k_value, np.zeros(shape))
-    equilibrium = gas_in / k
-    driving = liquid_in - equilibrium
-    liquid_out = equilibrium + remaining * driving
-    gas_out = gas_in + k * removed * driving / factor
-    with np.errstate(divide="ignore", invalid="ignore"):
-        removed_of_feed = removed * driving / liquid_in
-    check_range("solute mole fraction in the leaving gas", gas_out, 0.0, _DILUTE_LIMIT, "-", _DILUTE_SOURCE, warnings)
-    return Cascade(
-        _shaped(gas_out, shape),
-        _shaped(liquid_out, shape),
-        _shaped(1.0 - removed_of_feed, shape),
-        _shaped(removed_of_feed, shape),
-    )
+    check_range("solute mole fraction in the entering liquid", liquid_in, 0.0, _DILUTE_LIMIT, "-", _DILUTE_SOURCE,
+                warnings)
+    liquid_out, gas_out, remaining, removed = _cascade(factor, stages, liquid_in, gas_in, k_value, invert=True)
+    if gas_out is not None:
+        check_range("solute mole fraction in the leaving gas", gas_out, 0.0, _DILUTE_LIMIT, "-", _DILUTE_SOURCE,
+                    warnings)
+    return Cascade(gas_out, liquid_out, remaining, removed)
 
 
 # ---------------------------------------------------------------------------
