@@ -151,6 +151,10 @@ def _item(item: str) -> dict:
 # --------------------------------------------------------------------------- purchased cost
 
 
+#: Exponent of the six-tenths rule for scaling cost with size (common practice).
+SIX_TENTHS = 0.6
+
+
 def purchased_cost(item: str, size, *, warnings: list[str] | None = None):
     r"""Purchased cost of one item in base material at ambient pressure.
 
@@ -175,18 +179,24 @@ def purchased_cost(item: str, size, *, warnings: list[str] | None = None):
 
     Notes
     -----
-    Valid within the item's ``valid`` range; outside it the curve is
-    extrapolated (the quadratic in log A then grows fast) and a warning is
+    Valid within the item's ``valid`` range. Outside it the quadratic in
+    log A turns the wrong way (a 0.1 m3/s fan would cost six times a 1 m3/s
+    one), so the cost is taken from the nearest end of the range A_end by the
+    six-tenths rule, Cp0 = Cp0(A_end) (A / A_end)**0.6, and a warning is
     appended.
 
     Source: Turton et al., Analysis, Synthesis and Design of Chemical
     Processes, 4th ed., Appendix A, Eq. (A.1) and Table A.1 (equation number
-    from memory).
+    from memory); six-tenths rule: Williams, Chem. Eng. 54(12), 124 (1947)
+    (value from memory), common practice for scaling beyond a fitted range.
 
     Examples
     --------
     >>> round(float(purchased_cost("vessel_vertical", 1.0)))
     3143
+    >>> small = purchased_cost("blower_centrifugal", [0.1, 1.0])
+    >>> round(float(small[0] / small[1]), 4)     # 0.1 ** 0.6
+    0.2512
     """
     row = _item(item)
     area = np.asarray(size, dtype=float)
@@ -194,8 +204,10 @@ def purchased_cost(item: str, size, *, warnings: list[str] | None = None):
         raise ValueError(f"{row['size']} for {item} must be > 0 {row['size_unit']}, got {size!r}")
     low, high = row["valid"]
     check_range(row["size"], area, low, high, row["size_unit"], f"{item} purchased cost (Turton Table A.1)", warnings)
-    log_size = np.log10(area)
-    return 10.0 ** (row["k1"] + row["k2"] * log_size + row["k3"] * log_size**2)
+    inside = np.clip(area, low, high)
+    log_size = np.log10(inside)
+    fitted = 10.0 ** (row["k1"] + row["k2"] * log_size + row["k3"] * log_size**2)
+    return fitted * (area / inside) ** SIX_TENTHS
 
 
 # --------------------------------------------------------------------------- factors

@@ -276,3 +276,19 @@ def test_installed_cost_reproduces_turton_factors():
     assert np.allclose(cost.grassroots, 1.18 * np.array([1.0e5, 2.5e6]) + 0.5 * np.array([6.0e4, 1.0e6]))
     default = costing.installed_cost(1.0e5)
     assert math.isclose(float(default.grassroots), 1.68e5)
+
+
+@pytest.mark.parametrize("item", ["vessel_vertical", "tray_sieve", "pump_centrifugal", "blower_centrifugal"])
+def test_cost_beyond_the_fitted_range_scales_by_six_tenths(item):
+    # Outside the fitted range the cost follows the six-tenths rule from the
+    # nearest end (Williams, Chem. Eng. 54(12), 124, 1947; value from memory):
+    # it keeps rising with size and never turns back as the quadratic would.
+    low, high = costing.load_cost_table()[item]["valid"]
+    sizes = np.array([low / 20.0, low / 4.0, low, high, high * 3.0])
+    cost = costing.purchased_cost(item, sizes)
+    assert np.all(np.diff(cost) > 0)
+    assert cost[0] / cost[2] == pytest.approx(20.0 ** -0.6, rel=1e-12)
+    assert cost[4] / cost[3] == pytest.approx(3.0 ** 0.6, rel=1e-12)
+    messages = []
+    costing.purchased_cost(item, sizes, warnings=messages)
+    assert len(messages) == 1 and "outside" in messages[0]
