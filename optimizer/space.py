@@ -575,6 +575,7 @@ class Limit:
     label: str            # what the user set, in words
     values: np.ndarray    # one per design point
     bound: float
+    unit: str = ""        # of values and bound, for messages
 
 
 def limit_table(case: Case, d) -> list[Limit]:
@@ -601,7 +602,8 @@ def limit_table(case: Case, d) -> list[Limit]:
     for name, what, values, bound, unit in optional:
         if bound is not None and np.isfinite(bound):
             # the same relative slack of 1e-9 as the spec and flood limits: rounding, not engineering
-            table.append(Limit(name, f"{what} at most {bound:.4g} {unit}".strip(), values, float(bound) * (1 + 1e-9)))
+            table.append(Limit(name, f"{what} at most {bound:.4g} {unit}".strip(), values,
+                               float(bound) * (1 + 1e-9), unit))
     return table
 
 
@@ -644,6 +646,7 @@ class Space:
     group: np.ndarray            # (agent, trays) group index of each alternative
     least: np.ndarray            # True for the least-rate alternative of its group
     feasible: np.ndarray         # meets spec and every limit
+    agents: np.ndarray           # the candidates (indices into case.agents) this space covers
 
     @property
     def keys(self) -> list[tuple[str, int, float]]:
@@ -717,7 +720,7 @@ def build_space(case: Case, agents=None) -> Space:
     else:
         designs = base
     feasible = designs.within_limits
-    return Space(case=case, designs=designs, group=group, least=is_least, feasible=feasible)
+    return Space(case=case, designs=designs, group=group, least=is_least, feasible=feasible, agents=chosen)
 
 
 def concatenate(parts: list[Designs]) -> Designs:
@@ -740,24 +743,26 @@ def infeasible_reason(space: Space) -> str:
     d = space.designs
     if len(d) == 0 or not np.any(space.least):
         parts = []
-        agents = np.arange(len(case.agents))
+        agents = np.asarray(space.agents, dtype=int)
         rate = hi * minimum_rate(case, agents)
         # An agent whose lean loading already exceeds a spec has no finite minimum rate; its
         # outlet is not needed (the message names the lean loading), so evaluate it at any rate.
         out, _, _ = outlet(case, agents, np.full(agents.shape, n_max), np.where(np.isfinite(rate), rate, 1.0))
-        for a, name in enumerate(case.agents):
-            misses = [
-                f"{case.solutes[s]} {mole_fraction_text(out[a, s])} (spec {mole_fraction_text(case.target[s])})"
-                for s in range(len(case.solutes)) if out[a, s] > case.target[s] * (1 + 1e-9)
-            ]
-            if not np.isfinite(rate[a]):
+        for row, a in enumerate(agents):
+            name = case.agents[a]
+            if not np.isfinite(rate[row]):
                 lean = [case.solutes[s] for s in range(len(case.solutes))
                         if np.isfinite(case.target[s]) and _equilibrium_inlet(case, a)[s] >= case.target[s]]
-                parts.append(f"{name!r} cannot: its lean loading alone puts {', '.join(lean)} above the spec")
+                parts.append(f"{name!r}: its lean loading alone holds {', '.join(lean)} above the spec")
                 continue
-            parts.append(f"{name!r} reaches {', '.join(misses) or 'the spec only outside the ratio range'}")
-        return (f"no design meets the spec: even at {n_max} trays and {hi:g} x {word.split('/')[1]} "
-                + "; ".join(parts) + "; allow more trays, a wider ratio range or add a candidate")
+            misses = [
+                f"{case.solutes[s]} {mole_fraction_text(out[row, s])} (spec {mole_fraction_text(case.target[s])})"
+                for s in range(len(case.solutes)) if out[row, s] > case.target[s] * (1 + 1e-9)
+            ]
+            reached = ", ".join(misses) if misses else "the spec only with a rate outside the ratio range"
+            parts.append(f"{name!r} reaches {reached} even at {n_max} trays and {hi:g} x {word.split('/')[1]}")
+        return ("no design meets the spec: " + "; ".join(parts)
+                + "; allow more trays, a wider ratio range, a leaner solvent or another candidate")
     meets = np.ones(len(d), bool)
     limits = limit_table(case, d)
     for limit in limits:
@@ -770,7 +775,7 @@ def infeasible_reason(space: Space) -> str:
         values = limit.values[meets]
         if values.size and np.min(values) > limit.bound:
             reasons.append(f"the least {limit.label.split(' at most')[0]} of any design meeting the spec is "
-                           f"{np.min(values):.4g}, above the limit ({limit.label})")
+                           f"{np.min(values):.4g} {limit.unit}".rstrip() + f", above the limit ({limit.label})")
     if not reasons:
         reasons.append("no single design meets every limit at once (" + "; ".join(c.label for c in limits) + ")")
     return "no design meets the spec within the limits: " + "; ".join(reasons)
