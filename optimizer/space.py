@@ -648,11 +648,6 @@ class Space:
     feasible: np.ndarray         # meets spec and every limit
     agents: np.ndarray           # the candidates (indices into case.agents) this space covers
 
-    @property
-    def keys(self) -> list[tuple[str, int, float]]:
-        d = self.designs
-        return [(self.case.agents[a], int(n), float(r)) for a, n, r in zip(d.agent, d.trays, d.ratio)]
-
     def undominated(self, keep: int) -> np.ndarray:
         """Indices of the alternatives that can be among the ``keep`` best; the rest are dropped.
 
