@@ -215,10 +215,7 @@ def evaluate(
             _fail(str(exc))
         if not (math.isfinite(molar) and molar > 0):
             _fail(f"--rate must be a flow > 0, got {rate_!r}")
-    designs, warnings = _run(lambda: ranking.evaluate_design(data, solvent, trays, ratio=ratio, rate=molar))
-    from optimizer.space import prepare
-
-    case = prepare(data)
+    case, designs, warnings = _run(lambda: ranking.evaluate_design(data, solvent, trays, ratio=ratio, rate=molar))
     if as_json:
         record = report.design_record(case, designs)
         record.update(warnings=warnings, caution=report.CAUTION)
@@ -270,11 +267,10 @@ def curve(
 ) -> None:
     """Annualized cost of one candidate against trays and against the ratio to the minimum."""
     from optimizer import ranking, report
-    from optimizer.space import prepare
 
     data = _load(scenario)
     result = _run(lambda: ranking.cost_curve(data, solvent))
-    report.print_curve(report.console(), prepare(data), result)
+    report.print_curve(report.console(), result)
 
 
 @app.command()

@@ -137,7 +137,7 @@ def agent_index(case: Case, name: str) -> int:
 
 
 def evaluate_design(scenario: Scenario, agent: str, trays: int, *, ratio: float | None = None,
-                    rate: float | None = None) -> tuple[Designs, list[str]]:
+                    rate: float | None = None) -> tuple[Case, Designs, list[str]]:
     """Evaluate one design the user names: agent, real trays and a ratio to the minimum or a rate [mol/s].
 
     The design is priced whether or not it meets the spec; ``meets_spec``
@@ -153,17 +153,25 @@ def evaluate_design(scenario: Scenario, agent: str, trays: int, *, ratio: float 
             raise InfeasibleSpec(sp.infeasible_reason(sp.build_space(case, agents=[a])))
         rate = ratio * rate_min
     d = sp.evaluate(case, np.array([a]), np.array([trays]), np.array([rate]))
-    return d, list(dict.fromkeys(d.warnings + sp.dilute_checks(case, d)))
+    return case, d, list(dict.fromkeys(d.warnings + sp.dilute_checks(case, d)))
 
 
 @dataclass
 class Curve:
     """Annualized cost of one agent against trays and against the ratio to the minimum."""
 
+    case: Case = field(repr=False)
     agent: str
     by_trays: Designs = field(repr=False)     # for each tray count, its best design
     by_ratio: Designs = field(repr=False)     # for each ratio level, the best design at that rate
-    ratio_levels: np.ndarray = field(repr=False)
+
+
+def _cheapest_per(labels: np.ndarray, cost: np.ndarray) -> np.ndarray:
+    """Index of the cheapest finite-cost entry for each distinct label, in label order."""
+    order = np.lexsort((cost, labels))
+    order = order[np.isfinite(cost[order])]
+    _, first = np.unique(labels[order], return_index=True)
+    return order[first]
 
 
 def cost_curve(scenario: Scenario, agent: str) -> Curve:
@@ -175,18 +183,9 @@ def cost_curve(scenario: Scenario, agent: str) -> Curve:
     cost = np.where(space.feasible, d.annualized, np.inf)
     if not np.any(np.isfinite(cost)):
         raise InfeasibleSpec(sp.infeasible_reason(space))
-    by_trays = []
-    for n in np.unique(d.trays):
-        mine = np.where(d.trays == n, cost, np.inf)
-        if np.isfinite(mine.min()):
-            by_trays.append(int(np.argmin(mine)))
+    # the grid levels: every alternative that is not a least-rate point sits on one of them
     levels = sp.rate_grid(case)
-    by_ratio, kept = [], []
-    for level in levels:
-        at = np.isclose(d.ratio, level, rtol=1e-9) & ~space.least
-        mine = np.where(at, cost, np.inf)
-        if np.isfinite(mine.min()):
-            by_ratio.append(int(np.argmin(mine)))
-            kept.append(level)
-    return Curve(agent=agent, by_trays=d.take(np.array(by_trays, dtype=int)),
-                 by_ratio=d.take(np.array(by_ratio, dtype=int)), ratio_levels=np.array(kept))
+    level = np.clip(np.searchsorted(levels, d.ratio * (1 - 1e-9)), 0, levels.size - 1)
+    on_grid = ~space.least & np.isclose(d.ratio, levels[level], rtol=1e-9)
+    by_ratio = _cheapest_per(level, np.where(on_grid, cost, np.inf))
+    return Curve(case=case, agent=agent, by_trays=d.take(_cheapest_per(d.trays, cost)), by_ratio=d.take(by_ratio))

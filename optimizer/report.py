@@ -337,8 +337,8 @@ def print_ranking(console: Console, result) -> None:
     print_warnings(console, result.warnings)
 
 
-def print_curve(console: Console, case: Case, curve) -> None:
-    rw = _ratio_word(case)
+def print_curve(console: Console, curve) -> None:
+    rw = _ratio_word(curve.case)
     t = _table(f"{curve.agent}: annualized cost against trays (best rate at each)", "trays", rw,
                "diam. m", "installed USD", "annualized USD/yr", right=(0, 1, 2, 3, 4))
     for i in range(len(curve.by_trays)):

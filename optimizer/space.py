@@ -463,11 +463,15 @@ def evaluate(case: Case, agent, trays, rate, diameter=None) -> Designs:
     sigma = case.surface_tension[agent]
 
     sizing = dict(tray_spacing=case.tray_spacing, flood_fraction=case.flood_fraction, tray_type=case.tray)
-    size = hydraulics.size_column(gas_mass, liquid_mass, rho_g, rho_l, sigma, trays, **sizing, warnings=notes)
-    if not np.all(np.isnan(diameter)):
-        given = np.where(np.isnan(diameter), size.diameter, diameter)
+    missing = np.isnan(diameter)
+    if np.all(missing):  # a new shell of the least standard size
+        size = hydraulics.size_column(gas_mass, liquid_mass, rho_g, rho_l, sigma, trays, **sizing, warnings=notes)
+    else:  # shells given (an existing one, or sizes above the least): fill any gaps with the least size
+        if np.any(missing):
+            least = hydraulics.size_column(gas_mass, liquid_mass, rho_g, rho_l, sigma, trays, **sizing).diameter
+            diameter = np.where(missing, least, diameter)
         size = hydraulics.size_column(gas_mass, liquid_mass, rho_g, rho_l, sigma, trays, **sizing,
-                                      diameter=given, warnings=None)
+                                      diameter=diameter, warnings=notes)
     diameter, height = size.diameter, size.height
 
     # Vessel: estimating figures only, not a mechanical design.
