@@ -24,8 +24,8 @@ import numpy as np
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))  # run from a checkout without installing
 
-from optimizer import space as sp  # noqa: E402
-from optimizer.scenario import load_scenario  # noqa: E402
+from towercost import space as sp  # noqa: E402
+from towercost.scenario import load_scenario  # noqa: E402
 
 DEMO = ROOT / "scenarios" / "demo_absorber.toml"
 POINTS = 10**5

@@ -17,7 +17,7 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))  # run from a checkout without installing
 
-from models import kremser  # noqa: E402
+from towercost.models import kremser  # noqa: E402
 
 POINTS = 10**6
 REPEATS = 5

@@ -42,9 +42,9 @@ sys.path.insert(0, str(ROOT))  # run from a checkout without installing
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 from bench_evaluate import CLI_REPEATS, best_seconds, cli_seconds  # noqa: E402
-from optimizer import model, ranking  # noqa: E402
-from optimizer import space as sp  # noqa: E402
-from optimizer.scenario import load_scenario  # noqa: E402
+from towercost import model, ranking  # noqa: E402
+from towercost import space as sp  # noqa: E402
+from towercost.scenario import load_scenario  # noqa: E402
 
 SCENARIOS = {
     "demo": ROOT / "scenarios" / "demo_absorber.toml",

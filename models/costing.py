@@ -35,7 +35,7 @@ from typing import NamedTuple
 
 import numpy as np
 
-from models.validity import check_range
+from towercost.models.validity import check_range
 
 _DATA = Path(__file__).resolve().parent / "data"
 _COST_TABLE = _DATA / "equipment_cost.toml"

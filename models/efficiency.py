@@ -15,7 +15,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from models.validity import check_range
+from towercost.models.validity import check_range
 
 #: 1 lb/ft3 in kg/m3 (0.45359237 kg / 0.3048**3 m3, exact).
 _KG_M3_PER_LB_FT3 = 0.45359237 / 0.3048**3

@@ -20,7 +20,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from models.validity import check_range
+from towercost.models.validity import check_range
 
 #: Molar gas constant [J/(mol K)], CODATA 2018 (exact: N_A k_B).
 GAS_CONSTANT = 8.31446261815324

@@ -26,7 +26,7 @@ from pathlib import Path
 
 import numpy as np
 
-from models.validity import check_range
+from towercost.models.validity import check_range
 
 GRAVITY = 9.80665  # standard acceleration of gravity [m/s2]
 REFERENCE_SURFACE_TENSION = 0.020  # surface tension of Fair's chart [N/m]

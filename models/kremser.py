@@ -34,7 +34,7 @@ from typing import NamedTuple
 
 import numpy as np
 
-from models.validity import check_range
+from towercost.models.validity import check_range
 
 __all__ = [
     "Cascade",

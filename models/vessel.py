@@ -23,7 +23,7 @@ from pathlib import Path
 
 import numpy as np
 
-from models.validity import check_range
+from towercost.models.validity import check_range
 
 ATMOSPHERIC_PRESSURE = 101325.0  # [Pa]
 PSI = 6894.757293168  # [Pa per psi]

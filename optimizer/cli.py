@@ -41,8 +41,8 @@ def _fail(message: str, code: int = BAD_INPUT) -> None:
 
 
 def _load(path: Path):
-    from optimizer.errors import ScenarioError
-    from optimizer.scenario import load_scenario
+    from towercost.errors import ScenarioError
+    from towercost.scenario import load_scenario
 
     try:
         return load_scenario(path)
@@ -52,8 +52,8 @@ def _load(path: Path):
 
 def _run(call):
     """Call the API; turn its exceptions into one line and an exit code."""
-    from models.kremser import UnreachableTarget
-    from optimizer.errors import InfeasibleSpec, ScenarioError
+    from towercost.models.kremser import UnreachableTarget
+    from towercost.errors import InfeasibleSpec, ScenarioError
 
     try:
         return call()
@@ -92,7 +92,7 @@ def rate(
     as_json: bool = typer.Option(False, "--json", help="Print one JSON object."),
 ) -> None:
     """One countercurrent cascade of equilibrium stages (Kremser): a quick what-if."""
-    from models import kremser
+    from towercost.models import kremser
 
     absorb = mode is Mode.absorb
     gas_in = (1e-3 if absorb else 0.0) if gas_in is None else gas_in
@@ -198,8 +198,8 @@ def evaluate(
     as_json: bool = typer.Option(False, "--json", help="Print one JSON object."),
 ) -> None:
     """Evaluate one design exactly and print its design sheet."""
-    from optimizer import ranking, report
-    from optimizer.units import UnitError, to_si
+    from towercost import ranking, report
+    from towercost.units import UnitError, to_si
 
     data = _load(scenario)
     if trays < 1:
@@ -239,7 +239,7 @@ def optimize(
     force: bool = typer.Option(False, "--force", help="Replace files that already exist."),
 ) -> None:
     """Rank the designs of least total annualized cost: solvent, rate, trays and diameter."""
-    from optimizer import ranking, report
+    from towercost import ranking, report
 
     data = _load(scenario)
     result = _run(lambda: ranking.optimize(data, top=top, method=method.value))
@@ -266,7 +266,7 @@ def curve(
     solvent: str = typer.Option(..., "--solvent", help="Candidate name (solvent, or stripping gas)."),
 ) -> None:
     """Annualized cost of one candidate against trays and against the ratio to the minimum."""
-    from optimizer import ranking, report
+    from towercost import ranking, report
 
     data = _load(scenario)
     result = _run(lambda: ranking.cost_curve(data, solvent))
@@ -279,8 +279,8 @@ def schema(
     force: bool = typer.Option(False, "--force", help="Replace the file if it exists."),
 ) -> None:
     """The JSON Schema of scenario files, for editors that validate TOML."""
-    from optimizer import report
-    from optimizer.scenario import Scenario
+    from towercost import report
+    from towercost.scenario import Scenario
 
     text = json.dumps(Scenario.model_json_schema(), indent=2)
     if out is None:

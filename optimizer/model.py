@@ -38,7 +38,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from optimizer.space import InfeasibleSpec, Space, infeasible_reason, limit_table
+from towercost.space import InfeasibleSpec, Space, infeasible_reason, limit_table
 
 
 @dataclass

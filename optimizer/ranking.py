@@ -14,9 +14,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from optimizer import space as sp
-from optimizer.scenario import Scenario, ScenarioError
-from optimizer.space import Case, Designs, InfeasibleSpec
+from towercost import space as sp
+from towercost.scenario import Scenario, ScenarioError
+from towercost.space import Case, Designs, InfeasibleSpec
 
 
 @dataclass
@@ -102,7 +102,7 @@ def optimize(scenario: Scenario, *, top: int = 10, method: str = "model") -> Res
     solver: dict = {"method": method, "alternatives_evaluated": len(space.designs),
                     "evaluate_seconds": t1 - t0}
     if method == "model":
-        from optimizer import model
+        from towercost import model
 
         run = model.solve(space, top=top)
         order, best_of, objective = run.order, run.per_agent, run.objective

@@ -17,8 +17,8 @@ import numpy as np
 from rich.console import Console
 from rich.table import Table
 
-from optimizer.space import Case, Designs
-from optimizer.units import mole_fraction_text
+from towercost.space import Case, Designs
+from towercost.units import mole_fraction_text
 
 CAUTION = (
     "Preliminary estimate only (order of magnitude to study grade). Mechanical, "

@@ -38,8 +38,8 @@ from pydantic import (
     model_validator,
 )
 
-from optimizer.errors import ScenarioError
-from optimizer.units import UnitError, dimension_of, to_si
+from towercost.errors import ScenarioError
+from towercost.units import UnitError, dimension_of, to_si
 
 __all__ = ["Scenario", "ScenarioError", "load_scenario", "parse_scenario", "gas_density"]
 

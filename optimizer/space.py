@@ -27,10 +27,10 @@ from dataclasses import dataclass, field, fields
 
 import numpy as np
 
-from models import costing, economics, efficiency, equilibrium, hydraulics, kremser, vessel
-from optimizer.errors import InfeasibleSpec, ScenarioError
-from optimizer.scenario import Scenario, gas_density
-from optimizer.units import STANDARD_ATMOSPHERE, mole_fraction_text
+from towercost.models import costing, economics, efficiency, equilibrium, hydraulics, kremser, vessel
+from towercost.errors import InfeasibleSpec, ScenarioError
+from towercost.scenario import Scenario, gas_density
+from towercost.units import STANDARD_ATMOSPHERE, mole_fraction_text
 
 #: Standard acceleration of gravity [m/s2] (CGPM 1901 conventional value).
 GRAVITY = 9.80665

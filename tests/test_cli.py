@@ -19,7 +19,7 @@ import numpy_financial as npf
 import pytest
 from typer.testing import CliRunner
 
-from optimizer.cli import app
+from towercost.cli import app
 
 ROOT = Path(__file__).resolve().parents[1]
 ABSORBER = ROOT / "scenarios" / "demo_absorber.toml"

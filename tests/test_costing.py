@@ -17,7 +17,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from models import costing
+from towercost.models import costing
 
 
 # ----------------------------------------------------------------------------- table data

@@ -15,7 +15,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy import integrate
 
-from models import economics
+from towercost.models import economics
 
 
 def test_crf_equals_numpy_financial_payment():

@@ -11,7 +11,7 @@ import pytest
 from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
-from models.efficiency import (
+from towercost.models.efficiency import (
     oconnell_absorber,
     oconnell_distillation,
     overall_from_murphree,

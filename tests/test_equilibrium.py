@@ -9,7 +9,7 @@ from chemicals import vapor_pressure
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from models.equilibrium import (
+from towercost.models.equilibrium import (
     ATMOSPHERE,
     HENRY_SCALES,
     SCALES_NEEDING_DENSITY,

@@ -7,7 +7,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from models import hydraulics as hy
+from towercost.models import hydraulics as hy
 
 IN = 0.0254
 FT = 0.3048

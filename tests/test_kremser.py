@@ -9,7 +9,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
 
-from models import kremser
+from towercost.models import kremser
 
 # ---------------------------------------------------------------------------
 # independent references

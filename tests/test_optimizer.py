@@ -23,10 +23,10 @@ import pytest
 from hypothesis import HealthCheck, Phase, given, settings
 from hypothesis import strategies as st
 
-from optimizer import model, ranking
-from optimizer import space as sp
-from optimizer.scenario import ScenarioError, load_scenario, parse_scenario
-from optimizer.space import InfeasibleSpec
+from towercost import model, ranking
+from towercost import space as sp
+from towercost.scenario import ScenarioError, load_scenario, parse_scenario
+from towercost.space import InfeasibleSpec
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "scenarios"
 ABSORBER = SCENARIOS / "demo_absorber.toml"

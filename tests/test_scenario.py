@@ -19,10 +19,10 @@ import pint
 import pytest
 from typer.testing import CliRunner
 
-from optimizer import ranking
-from optimizer.cli import app
-from optimizer.scenario import ScenarioError, load_scenario, parse_scenario
-from optimizer.units import to_si
+from towercost import ranking
+from towercost.cli import app
+from towercost.scenario import ScenarioError, load_scenario, parse_scenario
+from towercost.units import to_si
 
 ROOT = Path(__file__).resolve().parents[1]
 ABSORBER = ROOT / "scenarios" / "demo_absorber.toml"

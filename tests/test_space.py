@@ -10,9 +10,9 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from models import kremser
-from optimizer import space as sp
-from optimizer.scenario import parse_scenario
+from towercost.models import kremser
+from towercost import space as sp
+from towercost.scenario import parse_scenario
 
 ROOT = Path(__file__).resolve().parents[1]
 ABSORBER = tomllib.loads((ROOT / "scenarios" / "demo_absorber.toml").read_text(encoding="utf-8"))

@@ -7,7 +7,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from models import vessel as ve
+from towercost.models import vessel as ve
 
 IN = 0.0254
 FT = 0.3048

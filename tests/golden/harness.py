@@ -42,7 +42,7 @@ def _app():
     try:
         from towercost.cli import app
     except ImportError:  # before the package mapping
-        from optimizer.cli import app
+        from towercost.cli import app
     return app
 
 
