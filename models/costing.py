@@ -35,6 +35,7 @@ from typing import NamedTuple
 
 import numpy as np
 
+from towercost.models import defaults
 from towercost.models.validity import check_range
 
 _DATA = Path(__file__).resolve().parent / "data"
@@ -208,6 +209,43 @@ def purchased_cost(item: str, size, *, warnings: list[str] | None = None):
     log_size = np.log10(inside)
     fitted = 10.0 ** (row["k1"] + row["k2"] * log_size + row["k3"] * log_size**2)
     return fitted * (area / inside) ** SIX_TENTHS
+
+
+def size_in_range(item: str, size):
+    """True where ``size`` lies inside the range the item's cost correlation was fitted over.
+
+    Parameters
+    ----------
+    item : str
+        Key in ``equipment_cost.toml``.
+    size : array_like
+        Size parameter in the item's ``size_unit``.
+
+    Returns
+    -------
+    ndarray of bool
+        One flag per point: the purchased cost came from the fit itself
+        (True) or from the six-tenths rule beyond its range (False).
+
+    Examples
+    --------
+    >>> size_in_range("vessel_vertical", [0.1, 1.0, 600.0]).tolist()
+    [False, True, False]
+    """
+    low, high = _item(item)["valid"]
+    size = np.asarray(size, dtype=float)
+    return (size >= low) & (size <= high)
+
+
+def cost_basis(item: str) -> float:
+    """The cost index of an item's correlation (the index its costs are stated at).
+
+    Examples
+    --------
+    >>> cost_basis("tray_sieve")
+    397.0
+    """
+    return float(_item(item)["index_basis"])
 
 
 # --------------------------------------------------------------------------- factors
@@ -530,9 +568,9 @@ class InstalledCost(NamedTuple):
 def installed_cost(
     bare_module_total,
     *,
-    contingency: float = 0.15,
-    fee: float = 0.03,
-    auxiliary: float = 0.50,
+    contingency: float = defaults.CONTINGENCY,
+    fee: float = defaults.FEE,
+    auxiliary: float = defaults.AUXILIARY,
     bare_module_base=None,
 ) -> InstalledCost:
     r"""Total module and grassroots capital from the summed bare-module cost.

@@ -8,7 +8,8 @@ from __future__ import annotations
 
 import numpy as np
 
-_SECONDS_PER_HOUR = 3600.0
+from towercost.models import defaults
+from towercost.models.constants import SECONDS_PER_HOUR as _SECONDS_PER_HOUR
 _W_PER_KW = 1000.0
 
 
@@ -59,7 +60,7 @@ def capital_recovery_factor(interest_rate, years):
     return np.where(zero, 1.0 / life, factor)
 
 
-def pump_power(volumetric_flow, pressure_rise, efficiency=0.70):
+def pump_power(volumetric_flow, pressure_rise, efficiency=defaults.PUMP_EFFICIENCY):
     r"""Shaft power of a liquid pump.
 
         W_shaft = Q dP / eta
@@ -97,7 +98,7 @@ def pump_power(volumetric_flow, pressure_rise, efficiency=0.70):
     return np.asarray(volumetric_flow, dtype=float) * np.asarray(pressure_rise, dtype=float) / efficiency
 
 
-def electric_power(shaft_power, motor_efficiency=0.90):
+def electric_power(shaft_power, motor_efficiency=defaults.MOTOR_EFFICIENCY):
     r"""Electric power drawn by a motor delivering ``shaft_power``.
 
         W_electric = W_shaft / eta_motor
@@ -125,7 +126,8 @@ def electric_power(shaft_power, motor_efficiency=0.90):
     return np.asarray(shaft_power, dtype=float) / motor_efficiency
 
 
-def blower_power(volumetric_flow_inlet, inlet_pressure, pressure_rise, efficiency=0.70, heat_capacity_ratio=1.4):
+def blower_power(volumetric_flow_inlet, inlet_pressure, pressure_rise, efficiency=defaults.BLOWER_EFFICIENCY,
+                 heat_capacity_ratio=1.4):
     r"""Shaft power of a blower from the adiabatic (isentropic) compression work.
 
         W = k / (k - 1) P1 Q1 [(1 + dP / P1)^((k - 1) / k) - 1] / eta

@@ -20,12 +20,10 @@ from __future__ import annotations
 
 import numpy as np
 
+from towercost.models.constants import GAS_CONSTANT
+from towercost.models.constants import STANDARD_ATMOSPHERE as ATMOSPHERE
 from towercost.models.validity import check_range
 
-#: Molar gas constant [J/(mol K)], CODATA 2018 (exact: N_A k_B).
-GAS_CONSTANT = 8.31446261815324
-#: Standard atmosphere [Pa], exact by definition.
-ATMOSPHERE = 101325.0
 #: Reference temperature of the dimensionless concentration scales [K]
 #: (the convention of ``chemicals.Henry_converter``).
 CONCENTRATION_SCALE_TEMPERATURE = 298.15

@@ -26,9 +26,10 @@ from pathlib import Path
 
 import numpy as np
 
+from towercost.models import defaults
+from towercost.models.constants import GRAVITY
 from towercost.models.validity import check_range
 
-GRAVITY = 9.80665  # standard acceleration of gravity [m/s2]
 REFERENCE_SURFACE_TENSION = 0.020  # surface tension of Fair's chart [N/m]
 
 _TRAY_FILE = Path(__file__).parent / "data" / "tray_types.toml"
@@ -332,7 +333,8 @@ def downcomer_area_fraction(flow_parameter):
     return 0.1 + (np.clip(flow, 0.1, 1.0) - 0.1) / 9.0
 
 
-def column_diameter(gas_mass_flow, gas_density, flooding_velocity, flood_fraction=0.80, downcomer_fraction=0.1):
+def column_diameter(gas_mass_flow, gas_density, flooding_velocity, flood_fraction=defaults.FLOOD_FRACTION,
+                    downcomer_fraction=0.1):
     r"""Inside tower diameter that runs at ``flood_fraction`` of entrainment flood.
 
         D_T = sqrt(4 V / (f U_f pi (1 - A_d/A_T) rho_V))
@@ -454,7 +456,8 @@ def standard_diameter(diameter, increment=STANDARD_DIAMETER_STEP, minimum=0.4572
     return np.round(np.maximum(minimum, steps * increment), 6)
 
 
-def column_height(trays, tray_spacing=0.6096, top_space=1.2, bottom_space=1.8):
+def column_height(trays, tray_spacing=defaults.TRAY_SPACING, top_space=defaults.TOP_SPACE,
+                  bottom_space=defaults.BOTTOM_SPACE):
     r"""Tangent-to-tangent height of a tray column.
 
         H = N_trays * tray_spacing + top_space + bottom_space
@@ -761,13 +764,13 @@ def size_column(
     liquid_density,
     surface_tension,
     trays,
-    tray_spacing=0.6096,
-    flood_fraction=0.80,
+    tray_spacing=defaults.TRAY_SPACING,
+    flood_fraction=defaults.FLOOD_FRACTION,
     tray_type: str = "sieve",
     foaming_factor=1.0,
     diameter=None,
-    top_space=1.2,
-    bottom_space=1.8,
+    top_space=defaults.TOP_SPACE,
+    bottom_space=defaults.BOTTOM_SPACE,
     *,
     warnings: list[str] | None = None,
 ) -> ColumnSize:

@@ -773,3 +773,89 @@ def minimum_gas_rate(liquid_rate, k_value, liquid_in, liquid_out, gas_in=0.0, *,
     with np.errstate(divide="ignore", invalid="ignore"):
         rate = l_rate * (x_in - x_out) / (k * x_in - y_in)
     return _shaped(np.where(unreachable, np.inf, rate), shape)
+
+
+# ---------------------------------------------------------------------------
+# a cascade solved for a fraction of its inlet
+# ---------------------------------------------------------------------------
+
+
+class Requirement(NamedTuple):
+    """What a cascade needs to leave a given fraction of its inlet in the treated stream."""
+
+    stages: float          # theoretical stages N [-]
+    factor: float          # absorption or stripping factor F [-]
+    fraction: float        # driving-force fraction phi reached [-]
+
+
+def requirement_for_remaining(target_remaining, treated_in, equilibrium_inlet=0.0, *, factor=None, stages=None):
+    r"""Stages for a given factor, or factor for given stages, to leave ``target_remaining`` of the inlet.
+
+    The target, a fraction t of the treated stream's inlet, is first turned
+    into the driving-force fraction (:func:`driving_force_fraction`)
+
+        phi = (t z_in - eq) / (z_in - eq)
+
+    with eq the treated-stream composition in equilibrium with the entering
+    agent (absorber: K x_in; stripper: y_in / K); then the Kremser relation
+    is inverted for N (:func:`stages_for_fraction`) or for F
+    (:func:`factor_for_fraction`).
+
+    Parameters
+    ----------
+    target_remaining : float
+        Fraction of the entering solute left in the treated stream t [-], in (0, 1).
+    treated_in : float
+        Solute mole fraction of the treated stream as it enters z_in [-], > 0.
+    equilibrium_inlet : float
+        eq [-], >= 0.
+    factor, stages : float
+        Exactly one: the absorption or stripping factor F [-] (to solve for N)
+        or the theoretical stages N [-] > 0 (to solve for F).
+
+    Returns
+    -------
+    Requirement
+        ``(stages, factor, fraction)``.
+
+    Raises
+    ------
+    UnreachableTarget
+        When the entering agent alone holds the treated stream at or above
+        the target (``best`` = eq / z_in), or when the factor is too small
+        for any number of stages (``best`` = the least fraction of the inlet
+        that unlimited stages leave).
+
+    Source: Kremser (1930); Seader, Henley and Roper, Separation Process
+    Principles, 3rd ed. (2011), Section 6.5.
+
+    Examples
+    --------
+    >>> need = requirement_for_remaining(1 / 7, 0.007, factor=2.0)
+    >>> round(need.stages, 12)
+    2.0
+    >>> round(requirement_for_remaining(0.1, 1e-3, stages=9).factor, 12)
+    1.0
+    """
+    if (factor is None) == (stages is None):
+        raise ValueError("give exactly one of factor and stages")
+    eq = float(equilibrium_inlet)
+    outlet = float(target_remaining) * float(treated_in)
+    floor = eq / float(treated_in)
+    if outlet <= eq:
+        raise UnreachableTarget(
+            f"a fraction remaining of {target_remaining:g} is beyond reach: the entering agent holds the "
+            f"treated stream at or above {floor:.6g} of its inlet", best=floor)
+    phi = float(driving_force_fraction(outlet, treated_in, eq))
+    if stages is None:
+        best = (1.0 - factor) * (1.0 - floor) + floor if factor < 1.0 else floor
+        try:
+            needed = float(stages_for_fraction(phi, factor))
+        except UnreachableTarget:
+            raise UnreachableTarget(
+                f"a fraction remaining of {target_remaining:g} is beyond reach with factor {factor:g}: with "
+                f"unlimited stages the fraction remaining cannot fall below {best:.6g}", best=best) from None
+        return Requirement(needed, float(factor), phi)
+    if stages <= 0:
+        raise UnreachableTarget("a fraction remaining below 1 needs at least some stages (stages > 0)", best=1.0)
+    return Requirement(float(stages), float(factor_for_fraction(phi, stages)), phi)

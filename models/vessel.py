@@ -23,12 +23,10 @@ from pathlib import Path
 
 import numpy as np
 
+from towercost.models.constants import FOOT, INCH, PSI
+from towercost.models.constants import STANDARD_ATMOSPHERE as ATMOSPHERIC_PRESSURE
 from towercost.models.validity import check_range
 
-ATMOSPHERIC_PRESSURE = 101325.0  # [Pa]
-PSI = 6894.757293168  # [Pa per psi]
-INCH = 0.0254  # [m]
-FOOT = 0.3048  # [m]
 PLATE_STEP = INCH / 16.0  # plate thickness step, 1/16 in [m]
 
 _MATERIAL_FILE = Path(__file__).parent / "data" / "materials.toml"

@@ -1,0 +1,92 @@
+"""towercost: least-annualized-cost design of dilute gas absorbers and liquid strippers.
+
+The Python API, for notebooks and scripts (the ``towercost`` command is a
+thin layer over the same calls)::
+
+    import towercost
+
+    scenario = towercost.load("scenarios/demo_absorber.toml")   # or towercost.from_dict({...})
+    result = towercost.optimize(scenario, top=5)                # ranked designs, best first
+    result.to_frame()                                           # pandas, one row per design
+    sheet = towercost.evaluate(scenario, "light wash oil", trays=16, ratio=1.5)
+    sheet.to_frame()
+    curve = towercost.curve(scenario, "light wash oil")
+
+The relations themselves are in ``towercost.models`` (Kremser cascades,
+equilibrium, efficiency, hydraulics, vessels, costing, economics).
+
+Imports are deferred: ``import towercost`` loads nothing heavy until a
+function is called.
+"""
+
+from __future__ import annotations
+
+from importlib import metadata as _metadata
+
+try:
+    __version__ = _metadata.version("towercost")
+except _metadata.PackageNotFoundError:  # running from a checkout without installing
+    __version__ = "0+unknown"
+
+__all__ = ["load", "from_dict", "optimize", "evaluate", "curve", "ScenarioError", "InfeasibleSpec", "__version__"]
+
+from towercost.errors import InfeasibleSpec, ScenarioError  # noqa: E402 - light module
+
+
+def load(path):
+    """Read and validate a scenario file (TOML); ``ScenarioError`` names the field and value it cannot accept."""
+    from towercost.scenario import load_scenario
+
+    return load_scenario(path)
+
+
+def from_dict(data: dict, name: str = "scenario"):
+    """Validate a scenario given as a dict with the layout of the TOML file."""
+    from towercost.scenario import parse_scenario
+
+    return parse_scenario(data, name)
+
+
+def optimize(scenario, *, top: int = 10, method: str = "model"):
+    """Rank the ``top`` best designs by total annualized cost; a ``Result`` with ``.designs`` and ``.to_frame()``.
+
+    ``scenario`` is a loaded scenario, a path, or a dict.
+    """
+    from towercost.select.ranking import optimize as _optimize
+
+    return _optimize(_as_scenario(scenario), top=top, method=method)
+
+
+def evaluate(scenario, solvent: str, trays: int, *, ratio: float | None = None, rate: float | None = None,
+             diameter: float | None = None):
+    """Price one design exactly: a ``Designs`` of one row (``.to_frame()``, attributes per figure).
+
+    ``rate`` in mol/s, ``diameter`` in m; give ``ratio`` (to the minimum rate) or ``rate``.
+    """
+    from towercost.select.ranking import evaluate_design
+
+    _, designs, warnings = evaluate_design(_as_scenario(scenario), solvent, trays, ratio=ratio, rate=rate,
+                                           diameter=diameter)
+    designs.warnings = warnings
+    return designs
+
+
+def curve(scenario, solvent: str):
+    """Annualized cost of one candidate against trays and against the ratio to the minimum."""
+    from towercost.select.ranking import cost_curve
+
+    return cost_curve(_as_scenario(scenario), solvent)
+
+
+def _as_scenario(scenario):
+    from pathlib import Path
+
+    from towercost.scenario import Scenario
+
+    if isinstance(scenario, Scenario):
+        return scenario
+    if isinstance(scenario, dict):
+        return from_dict(scenario)
+    if isinstance(scenario, (str, Path)):
+        return load(scenario)
+    raise TypeError(f"a scenario is a loaded Scenario, a path or a dict, got {type(scenario).__name__}")

@@ -1,7 +1,8 @@
 """towercost commands: parse, call the API, print. Nothing else lives here.
 
 Exit codes: 0 done; 2 bad input (one line naming the field, the value and
-what is allowed); 3 no design meets the spec within the limits.
+what is allowed); 3 no design meets the spec within the limits; 70 internal
+error (one line; the details go to a log file in the output folder).
 """
 
 from __future__ import annotations
@@ -13,7 +14,8 @@ from pathlib import Path
 from typing import Optional
 
 import typer
-from rich.console import Console
+
+from towercost.errors import BAD_INPUT, INFEASIBLE, INTERNAL
 
 app = typer.Typer(
     add_completion=False,
@@ -22,7 +24,8 @@ app = typer.Typer(
     help="Least-annualized-cost design of dilute absorbers and strippers (tray columns).",
 )
 
-BAD_INPUT, INFEASIBLE = 2, 3
+#: Where an internal error's details are written when a command has no output folder of its own.
+DEFAULT_OUT = Path("reports")
 
 
 class Mode(str, Enum):
@@ -40,27 +43,72 @@ def _fail(message: str, code: int = BAD_INPUT) -> None:
     raise typer.Exit(code)
 
 
-def _load(path: Path):
-    from towercost.errors import ScenarioError
-    from towercost.scenario import load_scenario
+def _internal(exc: BaseException, out: Path) -> None:
+    """An unexpected exception: one line, and the traceback in a new log file in ``out``."""
+    import datetime
+    import traceback
 
+    stamp = datetime.datetime.now().strftime("%Y%m%d-%H%M%S-%f")
+    detail = "".join(traceback.format_exception(exc))
+    where = "not written"
     try:
-        return load_scenario(path)
-    except ScenarioError as exc:
-        _fail(str(exc))
+        out.mkdir(parents=True, exist_ok=True)
+        log = out / f"towercost-internal-error-{stamp}.log"
+        with open(log, "x", encoding="utf-8") as handle:
+            handle.write(detail)
+        where = str(log)
+    except OSError:
+        pass
+    _fail(f"internal error ({type(exc).__name__}: {exc}); this is a bug in towercost, not in the input; "
+          f"details: {where}", INTERNAL)
 
 
-def _run(call):
+def _run(call, out: Path = DEFAULT_OUT):
     """Call the API; turn its exceptions into one line and an exit code."""
-    from towercost.models.kremser import UnreachableTarget
     from towercost.errors import InfeasibleSpec, ScenarioError
+    from towercost.models.kremser import UnreachableTarget
 
     try:
         return call()
     except InfeasibleSpec as exc:
         _fail(str(exc), INFEASIBLE)
-    except (ScenarioError, UnreachableTarget, FileExistsError, ValueError) as exc:
+    except (ScenarioError, UnreachableTarget, FileExistsError) as exc:
         _fail(str(exc))
+    except typer.Exit:
+        raise
+    except Exception as exc:  # noqa: BLE001 - anything else is a bug, said as one
+        _internal(exc, out)
+
+
+def _load(path: Path):
+    from towercost.scenario import load_scenario
+
+    return _run(lambda: load_scenario(path))
+
+
+def _progress():
+    """A progress callback for long evaluations: a rich bar on stderr once a run passes about a second."""
+    import time
+
+    state: dict = {"start": time.perf_counter(), "bar": None}
+
+    def update(done: int, total: int) -> None:
+        if state["bar"] is None:
+            if time.perf_counter() - state["start"] < 1.0 or done >= total:
+                return
+            from rich.console import Console
+            from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
+
+            bar = Progress(TextColumn("evaluating alternatives"), BarColumn(), TextColumn("{task.completed:,}"),
+                           TimeRemainingColumn(), console=Console(stderr=True), transient=True)
+            bar.start()
+            state["bar"], state["task"] = bar, bar.add_task("space", total=total)
+        bar = state["bar"]
+        bar.update(state["task"], completed=done, total=total)
+        if done >= total:
+            bar.stop()
+
+    return update
 
 
 # --------------------------------------------------------------------------- rate
@@ -108,7 +156,6 @@ def rate(
     treated_in = gas_in if absorb else liquid_in
     if treated_in == 0:
         _fail(f"{'--gas-in' if absorb else '--liquid-in'} must be > 0 for the treated stream, got 0")
-
     if factor is None and None not in (liquid, gas, k_value):
         factor = liquid / (k_value * gas) if absorb else k_value * gas / liquid
     elif factor is not None and (liquid is not None or gas is not None):
@@ -119,70 +166,39 @@ def rate(
               f"{'solvent' if absorb else 'stripping gas'} enters through K")
 
     record: dict = {"mode": mode.value}
-
-    def inverse():
-        if target_remaining is None:
-            return
+    if target_remaining is not None:
+        if (factor is None) == (stages is None):
+            _fail("--target-remaining goes with exactly one of --factor (or the flows) and --stages")
         eq = (k_value or 0.0) * liquid_in if absorb else (gas_in / k_value if gas_in else 0.0)
-        outlet = target_remaining * treated_in
-        if outlet <= eq:
-            raise kremser.UnreachableTarget(
-                f"--target-remaining {target_remaining:g} is beyond reach: the entering "
-                f"{'solvent' if absorb else 'stripping gas'} holds the treated stream at or above "
-                f"{eq / treated_in:.6g} of its inlet", best=eq / treated_in)
-        phi = float(kremser.driving_force_fraction(outlet, treated_in, eq))
-        if factor is not None and stages is None:
-            try:
-                needed = float(kremser.stages_for_fraction(phi, factor))
-            except kremser.UnreachableTarget as exc:
-                best = (1 - factor) * (1 - eq / treated_in) + eq / treated_in
-                raise kremser.UnreachableTarget(
-                    f"--target-remaining {target_remaining:g} is beyond reach with factor {factor:g}: "
-                    f"with unlimited stages the fraction remaining cannot fall below {best:.6g}", best=best
-                ) from exc
-            record["stages_required"] = needed
-            return needed, factor
-        if stages is not None and factor is None:
-            if stages == 0:
-                raise kremser.UnreachableTarget("--target-remaining needs --stages > 0", best=1.0)
-            needed = float(kremser.factor_for_fraction(phi, stages))
-            record["factor_required"] = needed
-            return stages, needed
-        raise ValueError("--target-remaining goes with exactly one of --factor (or the flows) and --stages")
-
-    found = _run(inverse)
-    n, f = found if found else (stages, factor)
-    if n is None or f is None:
+        try:
+            need = kremser.requirement_for_remaining(target_remaining, treated_in, eq, factor=factor,
+                                                     stages=None if factor is not None else stages)
+        except kremser.UnreachableTarget as exc:
+            _fail(f"--target-remaining {target_remaining:g}: {exc}")
+        if stages is None:
+            record["stages_required"] = need.stages
+        else:
+            record["factor_required"] = need.factor
+        stages, factor = need.stages, need.factor
+    if stages is None or factor is None:
         _fail("give --stages and --factor (or --liquid, --gas and --k-value)")
-    cascade = _run(lambda: (kremser.absorb(f, n, gas_in, liquid_in, k_value) if absorb
-                            else kremser.strip(f, n, liquid_in, gas_in, k_value)))
+    cascade = _run(lambda: (kremser.absorb(factor, stages, gas_in, liquid_in, k_value) if absorb
+                            else kremser.strip(factor, stages, liquid_in, gas_in, k_value)))
 
     def num(value):
         return None if value is None else float(value)
 
-    record.update(stages=float(n), factor=float(f), k_value=k_value, gas_in=gas_in, liquid_in=liquid_in,
+    record.update(stages=float(stages), factor=float(factor), k_value=k_value, gas_in=gas_in, liquid_in=liquid_in,
                   fraction_remaining=num(cascade.fraction_remaining), fraction_removed=num(cascade.fraction_removed),
                   gas_out=num(cascade.gas_out), liquid_out=num(cascade.liquid_out))
     if as_json:
         typer.echo(json.dumps(record, indent=2))
         return
-    console = Console()
-    word = "absorption factor A" if absorb else "stripping factor S"
-    console.print(f"[bold]Countercurrent cascade, {mode.value}[/bold] (Kremser; dilute, linear equilibrium, constant L and V)")
-    lines = [("theoretical stages", f"{n:.4g}"), (word, f"{f:.6g}")]
-    if "stages_required" in record:
-        lines.append(("stages required", f"{record['stages_required']:.4f} (round up)"))
-    if "factor_required" in record:
-        lines.append(("factor required", f"{record['factor_required']:.6g}"))
-    lines += [("fraction remaining", f"{record['fraction_remaining']:.6g}"),
-              ("fraction removed", f"{record['fraction_removed']:.6g}"),
-              ("gas in / out", f"{gas_in:.6g} / " + ("-" if record["gas_out"] is None else f"{record['gas_out']:.6g}")),
-              ("liquid in / out", f"{liquid_in:.6g} / " + ("-" if record["liquid_out"] is None else f"{record['liquid_out']:.6g}"))]
-    width = max(len(k) for k, _ in lines)
-    for k, v in lines:
-        console.print(f"  {k:<{width}}  {v}", highlight=False)
-    if record["gas_out"] is None or record["liquid_out"] is None:
-        console.print("  [dim]give --k-value for the other stream's outlet[/dim]")
+    from rich.console import Console
+
+    from towercost.report.terminal import print_cascade
+
+    print_cascade(Console(), record, absorb)
 
 
 # --------------------------------------------------------------------------- evaluate
@@ -198,8 +214,9 @@ def evaluate(
     as_json: bool = typer.Option(False, "--json", help="Print one JSON object."),
 ) -> None:
     """Evaluate one design exactly and print its design sheet."""
-    from towercost import ranking, report
-    from towercost.units import UnitError, to_si
+    from towercost.report import records, terminal
+    from towercost.scenario.units import UnitError, to_si
+    from towercost.select import ranking
 
     data = _load(scenario)
     if trays < 1:
@@ -217,11 +234,11 @@ def evaluate(
             _fail(f"--rate must be a flow > 0, got {rate_!r}")
     case, designs, warnings = _run(lambda: ranking.evaluate_design(data, solvent, trays, ratio=ratio, rate=molar))
     if as_json:
-        record = report.design_record(case, designs)
-        record.update(warnings=warnings, caution=report.CAUTION)
-        typer.echo(report.to_json(record))
+        record = records.design_record(case, designs)
+        record.update(warnings=warnings, caution=records.CAUTION)
+        typer.echo(records.to_json(record))
         return
-    report.print_design(report.console(), case, designs, warnings, f"{data.case.name}: design sheet")
+    terminal.print_design(terminal.console(), case, designs, warnings, f"{data.case.name}: design sheet")
 
 
 # --------------------------------------------------------------------------- optimize, curve, schema
@@ -235,27 +252,30 @@ def optimize(
     as_json: bool = typer.Option(False, "--json", help="Print one JSON object instead of tables."),
     csv: bool = typer.Option(False, "--csv", help="Write the ranked designs as CSV into the output folder."),
     save: bool = typer.Option(False, "--save", help="Write the JSON report into the output folder."),
-    out: Path = typer.Option(Path("reports"), "--out", help="Output folder for --csv and --save."),
+    out: Path = typer.Option(DEFAULT_OUT, "--out", help="Output folder for --csv and --save."),
     force: bool = typer.Option(False, "--force", help="Replace files that already exist."),
 ) -> None:
     """Rank the designs of least total annualized cost: solvent, rate, trays and diameter."""
-    from towercost import ranking, report
+    from towercost.report import files, records, terminal
+    from towercost.select import ranking
 
     data = _load(scenario)
-    result = _run(lambda: ranking.optimize(data, top=top, method=method.value))
-    record = report.result_record(result)
+    result = _run(lambda: ranking.optimize(data, top=top, method=method.value, progress=_progress()), out)
+    record = records.result_record(result)
     written = []
     stem = scenario.stem
     if csv:
-        frame = report.alternatives_frame(result)
-        written.append(_run(lambda: report.write_new(out / f"{stem}-designs.csv", frame.to_csv(index=False), force=force)))
+        frame = records.alternatives_frame(result)
+        written.append(_run(lambda: files.write_new(out / f"{stem}-designs.csv", frame.to_csv(index=False),
+                                                    force=force), out))
     if save:
-        written.append(_run(lambda: report.write_new(out / f"{stem}-report.json", report.to_json(record), force=force)))
+        written.append(_run(lambda: files.write_new(out / f"{stem}-report.json", records.to_json(record),
+                                                    force=force), out))
     if as_json:
-        typer.echo(report.to_json(record))
+        typer.echo(records.to_json(record))
     else:
-        console = report.console()
-        report.print_ranking(console, result)
+        console = terminal.console()
+        terminal.print_ranking(console, result)
         for path in written:
             console.print(f"wrote {path}", highlight=False)
 
@@ -266,11 +286,12 @@ def curve(
     solvent: str = typer.Option(..., "--solvent", help="Candidate name (solvent, or stripping gas)."),
 ) -> None:
     """Annualized cost of one candidate against trays and against the ratio to the minimum."""
-    from towercost import ranking, report
+    from towercost.report import terminal
+    from towercost.select import ranking
 
     data = _load(scenario)
     result = _run(lambda: ranking.cost_curve(data, solvent))
-    report.print_curve(report.console(), result)
+    terminal.print_curve(terminal.console(), result)
 
 
 @app.command()
@@ -279,14 +300,14 @@ def schema(
     force: bool = typer.Option(False, "--force", help="Replace the file if it exists."),
 ) -> None:
     """The JSON Schema of scenario files, for editors that validate TOML."""
-    from towercost import report
-    from towercost.scenario import Scenario
+    from towercost.report import files
+    from towercost.scenario.schema import Scenario
 
     text = json.dumps(Scenario.model_json_schema(), indent=2)
     if out is None:
         typer.echo(text)
     else:
-        _run(lambda: report.write_new(out, text + "\n", force=force))
+        _run(lambda: files.write_new(out, text + "\n", force=force))
         typer.echo(f"wrote {out}")
 
 

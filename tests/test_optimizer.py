@@ -1,8 +1,8 @@
-"""Checks of the optimizer: optimizer/space.py, optimizer/model.py, optimizer/ranking.py.
+"""Checks of the optimizer: the design space, the selection model, the scan and the ranking.
 
 Truth comes from outside the selection model:
 
-* exhaustive enumeration (``ranking.scan``: every alternative evaluated and
+* exhaustive enumeration (``towercost.select.scan``: every alternative evaluated and
   sorted) is the independent method the Pyomo/HiGHS model must agree with;
 * the limiting cases of the solvent-rate / stage-count trade-off, and an
   exchange argument for the direction the optimum moves with the solvent price;
@@ -23,16 +23,22 @@ import pytest
 from hypothesis import HealthCheck, Phase, given, settings
 from hypothesis import strategies as st
 
-from towercost import model, ranking
-from towercost import space as sp
-from towercost.scenario import ScenarioError, load_scenario, parse_scenario
-from towercost.space import InfeasibleSpec
+from towercost.design import cascade
+from towercost.design.case import Case, prepare
+from towercost.design.column import SingleColumn
+from towercost.design.designs import Designs
+from towercost.design.limits import limit_table
+from towercost.design.space import RESOURCES, Space, build_space
+from towercost.errors import InfeasibleSpec, ScenarioError
+from towercost.scenario import load_scenario, parse_scenario
+from towercost.select import model, ranking
+from towercost.select.scan import first_in_order, scan
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "scenarios"
 ABSORBER = SCENARIOS / "demo_absorber.toml"
 STRIPPER = SCENARIOS / "demo_air_stripper.toml"
 
-#: Relative slack the space itself allows on a spec (``space.limit_table``).
+#: Relative slack the space itself allows on a spec (``towercost.design.limits``).
 SPEC_SLACK = 1e-9
 
 
@@ -41,9 +47,26 @@ SPEC_SLACK = 1e-9
 # ---------------------------------------------------------------------------
 
 
-def space_of(data: dict) -> sp.Space:
-    """Validate a scenario dict and evaluate its whole design space."""
-    return sp.build_space(sp.prepare(parse_scenario(copy.deepcopy(data), "generated")))
+def space_of(data: dict) -> Space:
+    """Validate a scenario dict and evaluate its whole design space, keeping every resource column."""
+    return build_space(prepare(parse_scenario(copy.deepcopy(data), "generated")), keep=RESOURCES)
+
+
+def model_solve(space: Space, top: int, *, reduce: bool = True):
+    """The model's top ``top`` and per-candidate best: through the ranking's reduction, or over every feasible one."""
+    if reduce:
+        order, best_of, figures = ranking.select_by_model(space, top)
+        return order, best_of, figures["binaries"]
+    feasible = np.flatnonzero(space.feasible)
+    if feasible.size == 0:
+        raise InfeasibleSpec("no feasible alternative")
+    kept = space.tie_order(feasible)
+    unit = model.Unit("column", cost=space.cost[kept], rank=np.arange(kept.size))
+    chosen = model.SelectionModel([unit])
+    order = [int(kept[c[0]]) for c in chosen.best(top).choices]
+    best_of = {int(a): int(kept[chosen.best(1, restrict=[space.agent[kept] == a]).choices[0][0]])
+               for a in np.unique(space.agent[kept])}
+    return order, best_of, chosen.binaries
 
 
 def raw_scenario(path: Path) -> dict:
@@ -51,7 +74,7 @@ def raw_scenario(path: Path) -> dict:
         return tomllib.load(fh)
 
 
-def kremser_outlet(case: sp.Case, d: sp.Designs) -> np.ndarray:
+def kremser_outlet(case: Case, d: Designs) -> np.ndarray:
     """Treated-stream outlet mole fractions recomputed here from the decisions alone.
 
     Kremser relation for a countercurrent cascade, clean-inlet form
@@ -78,7 +101,7 @@ def kremser_outlet(case: sp.Case, d: sp.Designs) -> np.ndarray:
     return eq + phi * (case.feed_in - eq)
 
 
-def assert_meets_spec_and_limits(case: sp.Case, d: sp.Designs) -> None:
+def assert_meets_spec_and_limits(case: Case, d: Designs) -> None:
     """Every design of ``d`` meets every spec and every limit of ``case``, read from the raw figures."""
     assert len(d) > 0
     spec = np.isfinite(case.target)
@@ -106,16 +129,12 @@ def assert_meets_spec_and_limits(case: sp.Case, d: sp.Designs) -> None:
     assert np.all(d.within_limits)
 
 
-def assert_same_ranking(space: sp.Space, model_order, scan_order, rel: float) -> None:
-    """The model's ranking equals the exhaustive one: same costs; same indices where costs are not tied."""
-    cost = space.designs.annualized
+def assert_same_ranking(space: Space, model_order, scan_order, rel: float) -> None:
+    """The model's ranking equals the exhaustive one, index for index: ties follow one key in both."""
+    cost = space.cost
     assert len(model_order) == len(scan_order)
     np.testing.assert_allclose(cost[model_order], cost[scan_order], rtol=rel, atol=0)
-    feasible_cost = cost[space.feasible]
-    for position, (m, s) in enumerate(zip(model_order, scan_order)):
-        tied = np.count_nonzero(np.isclose(feasible_cost, cost[s], rtol=rel, atol=0)) > 1
-        if not tied:
-            assert m == s, f"rank {position + 1}: model picked {m}, scan {s}"
+    assert list(model_order) == list(scan_order)
 
 
 # ---------------------------------------------------------------------------
@@ -206,12 +225,12 @@ CLEAR = (0.999, 1.001, 0.9, 1.1, 0.7, 1.3)
 ON_THE_EDGE = CLEAR + (1.0, 1.0, 1.0)
 
 
-def draw_limits(data, free: sp.Space, factors=CLEAR) -> dict:
+def draw_limits(data, free: Space, factors=CLEAR) -> dict:
     """Limits at or near the figures of the free space's feasible designs, so that they bite."""
     ok = free.feasible
     if not np.any(ok):
         return {}
-    d = free.designs
+    d = free.full()
     near = st.sampled_from(factors)
 
     def bound(values):
@@ -245,7 +264,7 @@ def with_limits(base: dict, limits: dict) -> dict:
     return out
 
 
-def generated_space(base: dict, data, factors=CLEAR) -> sp.Space:
+def generated_space(base: dict, data, factors=CLEAR) -> Space:
     return space_of(with_limits(base, draw_limits(data, space_of(base), factors)))
 
 
@@ -263,51 +282,63 @@ GENERATED = settings(max_examples=200, deadline=None, database=None,
 @pytest.fixture(scope="module", params=[ABSORBER, STRIPPER], ids=["absorber", "stripper"])
 def bundled(request):
     scenario = load_scenario(request.param)
-    space = sp.build_space(sp.prepare(scenario))
+    space = build_space(prepare(scenario), keep=RESOURCES)
     return scenario, space
 
 
 def test_bundled_model_top10_equals_scan(bundled):
     # Independent method: exhaustive enumeration (every alternative evaluated and sorted).
     _, space = bundled
-    run = model.solve(space, top=10)
-    order, best_of = ranking.scan(space, 10)
-    cost = space.designs.annualized
+    order_model, best_model, _ = model_solve(space, 10)
+    order, best_of = scan(space, 10)
     assert len(order) == 10
-    assert run.objective[0] == pytest.approx(cost[order[0]], rel=1e-12)
-    np.testing.assert_allclose(run.objective, cost[run.order], rtol=1e-12, atol=0)
-    assert_same_ranking(space, run.order, order, rel=1e-12)
-    assert set(run.per_agent) == set(best_of)
-    for a, i in best_of.items():
-        assert cost[run.per_agent[a]] == pytest.approx(cost[i], rel=1e-12)
+    assert_same_ranking(space, order_model, order, rel=1e-12)
+    assert best_model == best_of
 
 
 def test_bundled_reduction_is_exact(bundled):
-    # The dominance reduction drops alternatives; the full model must rank the same.
+    # The reduction drops alternatives; the model over every feasible one must rank the same.
     _, space = bundled
-    reduced = model.solve(space, top=10, reduce=True)
-    full = model.solve(space, top=10, reduce=False)
-    assert reduced.alternatives < full.alternatives == len(space.designs)
-    np.testing.assert_allclose(reduced.objective, full.objective, rtol=1e-12, atol=0)
-    assert {a: space.designs.annualized[i] for a, i in reduced.per_agent.items()} == pytest.approx(
-        {a: space.designs.annualized[i] for a, i in full.per_agent.items()}, rel=1e-12)
+    reduced = model_solve(space, 10, reduce=True)
+    full = model_solve(space, 10, reduce=False)
+    assert reduced[2] < full[2] == int(space.feasible.sum())
+    assert reduced[0] == full[0]
+    assert reduced[1] == full[1]
 
 
 def test_stripper_with_limits_reduction_is_exact():
     # Same as above with a budget and a diameter cap that remove the free optimum.
     raw = raw_scenario(STRIPPER)
     free = space_of(raw)
-    best = int(ranking.scan(free, 1)[0][0])
-    raw["economics"]["capital_budget"] = float(free.designs.installed[best]) * 0.98
-    raw["column"]["max_diameter"] = float(np.max(free.designs.diameter[free.feasible])) - 0.1
+    best = int(scan(free, 1)[0][0])
+    raw["economics"]["capital_budget"] = float(free.usage["installed"][best]) * 0.98
+    raw["column"]["max_diameter"] = float(np.max(free.diameter[free.feasible])) - 0.1
     space = space_of(raw)
-    order, _ = ranking.scan(space, 5)
+    order, _ = scan(space, 5)
     assert order[0] != best
-    reduced = model.solve(space, top=5, reduce=True)
-    full = model.solve(space, top=5, reduce=False)
-    cost = space.designs.annualized
-    np.testing.assert_allclose(reduced.objective, cost[order], rtol=1e-12, atol=0)
-    np.testing.assert_allclose(full.objective, cost[order], rtol=1e-12, atol=0)
+    assert model_solve(space, 5, reduce=True)[0] == order
+    assert model_solve(space, 5, reduce=False)[0] == order
+
+
+def test_tie_order_is_one_key_in_model_and_scan():
+    # Alternatives of exactly equal cost: both methods list them by fewer trays, lower rate,
+    # smaller diameter, then candidate order (the documented key), not by solver whim.
+    _, space = space_and_ties()
+    order_model, _, _ = model_solve(space, 6)
+    order_scan, _ = scan(space, 6)
+    assert order_model == order_scan
+    key = [(space.cost[i], space.trays[i], space.rate[i], space.diameter[i], space.agent[i]) for i in order_scan]
+    assert key == sorted(key)
+
+
+def space_and_ties():
+    """The demo absorber with two identical candidates: every design of one ties one of the other."""
+    raw = raw_scenario(ABSORBER)
+    twin = copy.deepcopy(raw["solvent"][0])
+    twin["name"] = "light wash oil, second supplier"
+    raw["solvent"] = [raw["solvent"][0], twin]
+    space = space_of(raw)
+    return raw, space
 
 
 # ---------------------------------------------------------------------------
@@ -315,27 +346,22 @@ def test_stripper_with_limits_reduction_is_exact():
 # ---------------------------------------------------------------------------
 
 
-def check_model_against_scan(space: sp.Space) -> None:
-    """The brief's property: both find no design, or the same optimum and top-3 costs, all sound."""
+def check_model_against_scan(space: Space) -> None:
+    """The brief's property: both find no design, or the same top 3 and per-candidate best, all sound."""
     try:
-        scan_order, scan_best = ranking.scan(space, 3)
+        scan_order, scan_best = scan(space, 3)
     except InfeasibleSpec as exc:
         with pytest.raises(InfeasibleSpec) as raised:
-            model.solve(space, top=3)
+            ranking.select_by_model(space, 3)
         assert str(raised.value) == str(exc)
         return
-    run = model.solve(space, top=3)
-    cost = space.designs.annualized
-    assert run.objective[0] == pytest.approx(cost[scan_order[0]], rel=1e-9)
-    assert len(set(run.order)) == len(run.order)
-    np.testing.assert_allclose(run.objective, cost[run.order], rtol=1e-9, atol=1e-9)
-    assert_same_ranking(space, run.order, scan_order, rel=1e-9)
-    picked = space.designs.take(np.array(run.order + list(run.per_agent.values())))
+    order, best_of, _ = model_solve(space, 3)
+    assert len(set(order)) == len(order)
+    assert_same_ranking(space, order, scan_order, rel=1e-9)
+    picked = space.designs(np.array(order + list(best_of.values())))
+    np.testing.assert_allclose(picked.annualized, space.cost[order + list(best_of.values())], rtol=1e-12, atol=0)
     assert_meets_spec_and_limits(space.case, picked)
-    assert set(run.per_agent) == set(scan_best)
-    for a, i in run.per_agent.items():
-        assert space.designs.agent[i] == a
-        assert cost[i] == pytest.approx(cost[scan_best[a]], rel=1e-9)
+    assert best_of == scan_best
 
 
 # Derandomized: the same 200 scenarios every run, so that a limit landing within a
@@ -362,8 +388,8 @@ def test_generated_model_equals_scan_with_limits_on_the_edge(base, data):
 def regression_runner_up_case() -> dict:
     """One solvent, one solute, 5..21 trays: the 2nd and 3rd best once came out wrong here.
 
-    The outlet spec (5e-7) makes a limit row of ~1e-7 coefficients; unscaled, it
-    misled HiGHS into dear runner-ups (fixed by scaling the rows in model.py).
+    The outlet spec (5e-7) once made a limit row of ~1e-7 coefficients that
+    misled HiGHS into dear runner-ups; specs are now applied before the model.
     """
     return {
         "case": {"name": "runner-up regression", "mode": "absorb"},
@@ -390,24 +416,16 @@ def test_regression_model_runner_up_equals_scan():
 
 @settings(GENERATED, max_examples=100)
 @given(base=scenario_dicts(), data=st.data())
-def test_generated_dominance_reduction_keeps_top_k(base, data):
-    # Exactness of Space.undominated(k), solver-free: for any subset of the
-    # scenario's limits, the k cheapest designs meeting that subset are the
-    # same with or without the reduction (exhaustive enumeration both ways).
+def test_generated_reduction_keeps_top_k(base, data):
+    # Exactness of first_in_order, solver-free: on any subset of the alternatives,
+    # the first k in tie order (partition, then sort) equal a full lexicographic sort.
     space = generated_space(base, data, ON_THE_EDGE)
-    d = space.designs
-    limits = sp.limit_table(space.case, d)
-    chosen = data.draw(st.lists(st.booleans(), min_size=len(limits), max_size=len(limits)))
-    ok = np.ones(len(d), bool)
-    for use, limit in zip(chosen, limits):
-        if use:
-            ok &= limit.values <= limit.bound
+    chosen = np.flatnonzero(np.array(data.draw(st.lists(st.booleans(), min_size=len(space),
+                                                         max_size=len(space))), dtype=bool))
     k = data.draw(st.sampled_from([1, 2, 3, 5]))
-    kept = np.zeros(len(d), bool)
-    kept[space.undominated(k)] = True
-    full = np.sort(np.where(ok, d.annualized, np.inf))[:k]
-    reduced = np.sort(np.where(ok & kept, d.annualized, np.inf))[:k]
-    np.testing.assert_array_equal(reduced, full)
+    full = chosen[np.lexsort((space.agent[chosen], space.diameter[chosen], space.rate[chosen],
+                              space.trays[chosen], space.cost[chosen]))][:k]
+    np.testing.assert_array_equal(first_in_order(space, chosen, k), full)
 
 
 # ---------------------------------------------------------------------------
@@ -432,9 +450,9 @@ def one_solvent_absorber(**solvent) -> dict:
     }
 
 
-def best_by_scan(data: dict) -> tuple[sp.Space, int]:
+def best_by_scan(data: dict) -> tuple[Space, int]:
     space = space_of(data)
-    return space, ranking.scan(space, 1)[0][0]
+    return space, scan(space, 1)[0][0]
 
 
 def test_dear_solvent_cheap_capital_takes_most_trays_and_least_solvent():
@@ -444,15 +462,14 @@ def test_dear_solvent_cheap_capital_takes_most_trays_and_least_solvent():
     data = one_solvent_absorber(price=1.0e4)
     data["economics"].update(interest=0.0, life=100.0)
     space, i = best_by_scan(data)
-    d, ok = space.designs, space.feasible
+    d, ok = space.full(), space.feasible
     n_max = int(d.trays[ok].max())
     assert n_max == space.case.trays_range[1]
     # the least rate at the most trays lies above the ratio floor, so the rate does fall with trays
     assert d.ratio[i] > space.case.ratio_range[0] * 1.01
     assert d.trays[i] == n_max
     assert d.rate[i] == pytest.approx(float(d.rate[ok].min()), rel=1e-12)
-    assert model.solve(space, top=1, per_agent=False).order[0] in np.flatnonzero(
-        np.isclose(d.annualized, d.annualized[i], rtol=1e-12, atol=0))
+    assert model_solve(space, 1)[0][0] == i
 
 
 def test_free_solvent_takes_fewest_trays():
@@ -465,7 +482,7 @@ def test_free_solvent_takes_fewest_trays():
     data["column"]["larger_diameters"] = 0
     data["economics"].update(electricity=0.0)
     space, i = best_by_scan(data)
-    d, ok = space.designs, space.feasible
+    d, ok = space.full(), space.feasible
     assert np.unique(d.diameter[ok]).size == 1
     assert d.operating[i] == 0.0
     assert d.trays[i] == int(d.trays[ok].min())
@@ -482,8 +499,8 @@ def test_dearer_solvent_never_raises_the_chosen_ratio():
     ratios, trays = [], []
     for price in prices:
         space, i = best_by_scan(one_solvent_absorber(price=price))
-        ratios.append(float(space.designs.ratio[i]))
-        trays.append(int(space.designs.trays[i]))
+        ratios.append(float(space.ratio[i]))
+        trays.append(int(space.trays[i]))
     assert all(b <= a * (1 + 1e-12) for a, b in zip(ratios, ratios[1:])), ratios
     assert ratios[-1] < ratios[0], "the sweep should move the optimum"
     assert trays[-1] > trays[0]        # less solvent is bought with more trays (common practice)
@@ -516,7 +533,7 @@ def test_demo_absorber_absorption_factor_rule_of_thumb(absorber_result):
     toluene = case.solutes.index("toluene")
     agent = int(best.agent[0])
     # toluene controls: its pinch asks for the larger solvent rate and its outlet sits on the spec
-    phi = sp.target_fraction(case, np.array([agent]))[0]
+    phi = cascade.target_fraction(case, np.array([agent]))[0]
     pinch = (1.0 - phi) * case.k_value[agent] * case.feed_flow
     assert int(np.argmax(pinch)) == toluene
     assert float(best.outlet[0, toluene]) == pytest.approx(case.target[toluene], rel=1e-6)
@@ -527,11 +544,11 @@ def test_demo_absorber_absorption_factor_rule_of_thumb(absorber_result):
 def test_reported_best_is_exact(optimized):
     assert optimized.solver["difference"] < 1e-6
     case, best = optimized.case, optimized.best
-    fresh = sp.evaluate(case, best.agent, best.trays, best.rate, best.diameter)
+    fresh = SingleColumn(case).evaluate(best.agent, best.trays, best.rate, best.diameter)
     for name in ("annualized", "installed", "operating", "electric_power", "outlet", "fraction_of_flood"):
         np.testing.assert_allclose(getattr(fresh, name), getattr(best, name), rtol=1e-12, atol=0)
     # a fresh evaluation at the least standard diameter is no wider than the reported one
-    least = sp.evaluate(case, best.agent, best.trays, best.rate)
+    least = SingleColumn(case).evaluate(best.agent, best.trays, best.rate)
     assert least.diameter[0] <= best.diameter[0] + 1e-12
     if least.diameter[0] == pytest.approx(best.diameter[0], abs=1e-12):
         assert least.annualized[0] == pytest.approx(best.annualized[0], rel=1e-12)
@@ -541,10 +558,10 @@ def test_reported_best_equals_space_entry(bundled):
     # The batch evaluation of the whole space and the single-point re-evaluation agree.
     scenario, space = bundled
     result = ranking.optimize(scenario, top=1, method="scan")
-    i = ranking.scan(space, 1)[0][0]
-    assert result.best.annualized[0] == pytest.approx(space.designs.annualized[i], rel=1e-12)
-    assert result.best.trays[0] == space.designs.trays[i]
-    assert result.best.rate[0] == pytest.approx(space.designs.rate[i], rel=1e-15)
+    i = scan(space, 1)[0][0]
+    assert result.best.annualized[0] == pytest.approx(space.cost[i], rel=1e-12)
+    assert result.best.trays[0] == space.trays[i]
+    assert result.best.rate[0] == pytest.approx(space.rate[i], rel=1e-15)
 
 
 def test_every_returned_design_meets_spec_and_limits(optimized):
@@ -567,12 +584,11 @@ def test_demo_absorber_limits_are_met_when_they_bite():
 def test_budget_a_hair_below_the_optimum_excludes_it_in_the_model_too():
     raw = raw_scenario(STRIPPER)
     free = space_of(raw)
-    best = int(ranking.scan(free, 1)[0][0])
-    raw["economics"]["capital_budget"] = float(free.designs.installed[best]) * (1 - 1e-8)
+    best = int(scan(free, 1)[0][0])
+    raw["economics"]["capital_budget"] = float(free.usage["installed"][best]) * (1 - 1e-8)
     space = space_of(raw)
     assert not space.feasible[best]
-    run = model.solve(space, top=1, per_agent=False)
-    assert space.feasible[run.order[0]]
+    assert space.feasible[model_solve(space, 1)[0][0]]
 
 
 @pytest.mark.parametrize("method", ["scan", "model"])

@@ -1,4 +1,4 @@
-"""Tests for optimizer/scenario.py: reading, validating and converting scenario files.
+"""Tests for towercost.scenario: reading, validating and converting scenario files.
 
 Every bad value must give one ScenarioError line that names the file, the
 field and the value, and the CLI must turn it into exit 2 with no traceback.
@@ -19,10 +19,11 @@ import pint
 import pytest
 from typer.testing import CliRunner
 
-from towercost import ranking
 from towercost.cli import app
-from towercost.scenario import ScenarioError, load_scenario, parse_scenario
-from towercost.units import to_si
+from towercost.errors import ScenarioError
+from towercost.scenario import load_scenario, parse_scenario
+from towercost.scenario.units import to_si
+from towercost.select import ranking
 
 ROOT = Path(__file__).resolve().parents[1]
 ABSORBER = ROOT / "scenarios" / "demo_absorber.toml"

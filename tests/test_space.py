@@ -10,19 +10,23 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from towercost.models import kremser
-from towercost import space as sp
+from towercost.design import cascade
+from towercost.design.case import Case, prepare
+from towercost.design.column import SingleColumn
+from towercost.design.space import build_space
+from towercost.models import economics, kremser
 from towercost.scenario import parse_scenario
+from towercost.select import ranking
 
 ROOT = Path(__file__).resolve().parents[1]
 ABSORBER = tomllib.loads((ROOT / "scenarios" / "demo_absorber.toml").read_text(encoding="utf-8"))
 STRIPPER = tomllib.loads((ROOT / "scenarios" / "demo_air_stripper.toml").read_text(encoding="utf-8"))
 
 
-def case_of(data: dict, **column) -> sp.Case:
+def case_of(data: dict, **column) -> Case:
     data = copy.deepcopy(data)
     data["column"].update(column)
-    return sp.prepare(parse_scenario(data, "test.toml"))
+    return prepare(parse_scenario(data, "test.toml"))
 
 
 def murphree_cascade(n_trays, liquid, gas, k_value, murphree, gas_in, liquid_in):
@@ -59,8 +63,8 @@ def test_murphree_absorber_matches_tray_by_tray_solution(trays, ratio):
     # solved as a linear system (numpy.linalg.solve), lean solvent not solute-free.
     case = case_of(ABSORBER, efficiency={"murphree": 0.55})
     agent = 0
-    rate = ratio * float(sp.minimum_rate(case, np.array([agent]))[0])
-    designs = sp.evaluate(case, [agent], [trays], [rate])
+    rate = ratio * float(cascade.minimum_rate(case, np.array([agent]))[0])
+    designs = SingleColumn(case).evaluate([agent], [trays], [rate])
     for s in range(len(case.solutes)):
         y_out, _ = murphree_cascade(trays, rate, case.feed_flow, case.k_value[agent, s], 0.55,
                                     case.feed_in[s], case.lean[agent, s])
@@ -74,8 +78,8 @@ def test_murphree_stripper_matches_tray_by_tray_solution(trays):
     # liquid leaving the bottom tray.
     case = case_of(STRIPPER, efficiency={"murphree": 0.7})
     agent = 0
-    rate = 2.0 * float(sp.minimum_rate(case, np.array([agent]))[0])
-    designs = sp.evaluate(case, [agent], [trays], [rate])
+    rate = 2.0 * float(cascade.minimum_rate(case, np.array([agent]))[0])
+    designs = SingleColumn(case).evaluate([agent], [trays], [rate])
     for s in range(len(case.solutes)):
         _, x_out = murphree_cascade(trays, case.feed_flow, rate, case.k_value[agent, s], 0.7,
                                     case.lean[agent, s], case.feed_in[s])
@@ -90,14 +94,14 @@ def test_least_rate_meets_the_binding_spec_exactly(data, efficiency):
     case = case_of(data, efficiency=efficiency)
     trays = np.arange(6, 30)
     agents = np.zeros_like(trays)
-    rate = sp.least_rate(case, agents, trays)
+    rate = cascade.least_rate(case, agents, trays)
     assert np.all(np.isfinite(rate))
-    out, _, _ = sp.outlet(case, agents, trays, rate)
+    out = cascade.outlet(case, agents, trays, rate)[0]
     slack = out / case.target
     assert np.all(slack <= 1 + 1e-9)
     assert np.allclose(slack.max(axis=1), 1.0, rtol=1e-8)
     # a rate 0.1 % lower misses the spec
-    out_low, _, _ = sp.outlet(case, agents, trays, rate * 0.999)
+    out_low = cascade.outlet(case, agents, trays, rate * 0.999)[0]
     assert np.all((out_low / case.target).max(axis=1) > 1.0)
 
 
@@ -110,30 +114,27 @@ def test_minimum_rate_is_the_pinch_of_the_controlling_solute():
                                         case.target[s], case.lean[agent, s])
             for s in range(len(case.solutes))
         ]
-        assert float(sp.minimum_rate(case, np.array([agent]))[0]) == pytest.approx(max(map(float, each)), rel=1e-12)
+        assert float(cascade.minimum_rate(case, np.array([agent]))[0]) == pytest.approx(max(map(float, each)), rel=1e-12)
 
 
 def test_reduction_keeps_the_exact_top_k_under_binding_limits():
-    # A budget and a diameter limit that bind: the k best of the reduced set
-    # equal the k best of the whole space.
+    # A budget and a diameter limit that bind: the model's k best over its reduced set
+    # equal the k best of the whole space (exhaustive sort).
     data = copy.deepcopy(ABSORBER)
     data["economics"]["capital_budget"] = "700 kUSD"
     data["column"]["max_diameter"] = "2.2 m"
-    case = sp.prepare(parse_scenario(data, "test.toml"))
-    space = sp.build_space(case)
-    cost = np.where(space.feasible, space.designs.annualized, np.inf)
+    space = build_space(prepare(parse_scenario(data, "test.toml")))
+    cost = np.where(space.feasible, space.cost, np.inf)
     for k in (1, 5, 20):
-        kept = space.undominated(k)
-        full = np.sort(cost)[:k]
-        reduced = np.sort(cost[kept])[:k]
-        assert np.array_equal(full, reduced)
-        assert kept.size < len(space.designs)
+        order, _, figures = ranking.select_by_model(space, k)
+        np.testing.assert_array_equal(space.cost[order], np.sort(cost)[:k])
+        assert figures["binaries"] < int(space.feasible.sum())
 
 
 def test_wider_shell_runs_further_from_flood():
     case = case_of(ABSORBER)
-    space = sp.build_space(case)
-    d = space.designs
+    space = build_space(case)
+    d = space.full()
     first = np.flatnonzero(space.least)[0]
     same = np.flatnonzero((d.agent == d.agent[first]) & (d.trays == d.trays[first]) & (d.rate == d.rate[first]))
     order = same[np.argsort(d.diameter[same])]
@@ -141,3 +142,53 @@ def test_wider_shell_runs_further_from_flood():
     assert np.all(np.diff(d.fraction_of_flood[order]) < 0)
     assert np.all(np.diff(d.pressure_drop[order]) < 0)
     assert math.isclose(d.diameter[order[1]] - d.diameter[order[0]], 0.1524, rel_tol=1e-12)
+
+
+# --------------------------------------------------------------------------- one source for each relation
+
+
+def _random_designs(case: Case, rng: np.random.Generator, n: int = 400):
+    """Random design points inside the case's search range, evaluated by the flowsheet."""
+    agent = rng.integers(0, len(case.agents), n)
+    trays = rng.integers(case.trays_range[0], case.trays_range[1] + 1, n)
+    ratio = rng.uniform(1.02, 4.0, n)
+    rate = ratio * cascade.minimum_rate(case, agent)
+    return agent, trays, rate, SingleColumn(case).evaluate(agent, trays, rate)
+
+
+@pytest.mark.parametrize("data", [ABSORBER, STRIPPER], ids=["absorb", "strip"])
+def test_space_figures_are_the_models_own(data):
+    # The flowsheet must call towercost.models, not re-derive it: its outlets, minimum rates
+    # and yearly utility costs equal direct calls of kremser.absorb / strip,
+    # kremser.minimum_liquid_rate / minimum_gas_rate, economics.annual_utility_cost and
+    # economics.electricity_cost on random designs.
+    case = case_of(data, efficiency=0.55)
+    agent, trays, rate, d = _random_designs(case, np.random.default_rng(7))
+    k, lean = case.k_value[agent], case.lean[agent]
+    stages = trays[:, None] * 0.55
+    if case.mode == "absorb":
+        factor = rate[:, None] / (k * case.feed_flow)
+        direct = kremser.absorb(factor, stages, case.feed_in, lean, k)
+        treated, other = direct.gas_out, direct.liquid_out
+        minimum = kremser.minimum_liquid_rate(case.feed_flow, k, case.feed_in, case.target, lean, strict=False)
+    else:
+        factor = k * rate[:, None] / case.feed_flow
+        direct = kremser.strip(factor, stages, case.feed_in, lean, k)
+        treated, other = direct.liquid_out, direct.gas_out
+        minimum = kremser.minimum_gas_rate(case.feed_flow, k, case.feed_in, case.target, lean, strict=False)
+    np.testing.assert_allclose(d.outlet, treated, rtol=1e-13, atol=0)
+    np.testing.assert_allclose(d.agent_outlet, other, rtol=1e-13, atol=0)
+    np.testing.assert_allclose(d.rate_min, np.nanmax(np.where(np.isfinite(case.target), minimum, 0.0), axis=1),
+                               rtol=1e-13)
+    eco = case.economics
+    electricity = economics.electricity_cost(d.electric_power, eco.electricity * 3.6e6, eco.hours)
+    steam = economics.annual_utility_cost(d.steam_rate, eco.steam, eco.hours)
+    cooling = economics.annual_utility_cost(d.cooling_rate, eco.cooling_water, eco.hours)
+    agent_cost = economics.annual_utility_cost(d.makeup_rate, case.price[agent], eco.hours)
+    column = {spec.key: j for j, spec in enumerate(d.uses.specs)}
+    np.testing.assert_allclose(d.use_cost[:, column["electricity"]], electricity, rtol=1e-13)
+    np.testing.assert_allclose(d.use_cost[:, column["steam"]], steam, rtol=1e-13)
+    np.testing.assert_allclose(d.use_cost[:, column["cooling_water"]], cooling, rtol=1e-13)
+    np.testing.assert_allclose(d.use_cost[:, column["agent_purchase"]], agent_cost, rtol=1e-13)
+    np.testing.assert_allclose(d.annualized, economics.annualized_cost(d.installed, eco.capital_recovery,
+                                                                        d.operating, d.credit), rtol=1e-13)

@@ -10,7 +10,9 @@ message):
 
     .venv/bin/python tests/golden/harness.py --refresh
 
-Timing fields (any key ending in ``_seconds``) are dropped before comparison.
+Timing fields (any key ending in ``_seconds``) and the solver's diagnostics
+(``solver.binaries``, ``solver.solves``, ``solver.solver``: how an answer was
+found, not what it is) are dropped before comparison.
 """
 
 from __future__ import annotations
@@ -56,11 +58,16 @@ def invoke(args: list[str]) -> tuple[int, str]:
     return result.exit_code, result.stdout
 
 
-def _strip_timing(value):
+#: Solver diagnostics: how an answer was found, not what it is (compared as little as timing is).
+DIAGNOSTICS = ("binaries", "solves", "solver")
+
+
+def _strip_timing(value, parent=""):
     if isinstance(value, dict):
-        return {k: _strip_timing(v) for k, v in value.items() if not k.endswith("_seconds")}
+        return {k: _strip_timing(v, k) for k, v in value.items()
+                if not k.endswith("_seconds") and not (parent == "solver" and k in DIAGNOSTICS)}
     if isinstance(value, list):
-        return [_strip_timing(v) for v in value]
+        return [_strip_timing(v, parent) for v in value]
     return value
 
 

@@ -1,4 +1,4 @@
-"""The scenario: one absorber or stripper case, validated, in SI.
+"""The scenario file's schema: one absorber or stripper case, validated, in SI.
 
 A scenario is a TOML file with these tables (every physical value may carry a
 unit as text, "1200 kmol/h", "35 degC", "1.2 bar"; a bare number is in the SI
@@ -15,42 +15,23 @@ unit given below):
 ``[column]``        tray type, spacing, flood fraction, efficiency, material, limits
 ``[economics]``     interest, life, hours, utility prices, cost index, factors, caps
 
-Units are converted here, once; ``models/`` never sees a unit string.
-``load_scenario`` raises ``ScenarioError`` with the file, the field and the
-value for anything it cannot accept.
+Units are converted here, once; ``towercost.models`` never sees a unit
+string. Defaults come from ``towercost.models.defaults``, the same values
+the relations use.
 """
 
 from __future__ import annotations
 
-import difflib
 import math
-import tomllib
-from pathlib import Path
 from typing import Annotated, Any, Literal
 
-from pydantic import (
-    BaseModel,
-    BeforeValidator,
-    ConfigDict,
-    Field,
-    ValidationError,
-    field_validator,
-    model_validator,
-)
+from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, field_validator, model_validator
 
-from towercost.errors import ScenarioError
-from towercost.units import UnitError, dimension_of, to_si
+from towercost.models import defaults
+from towercost.models.equilibrium import HENRY_SCALES
+from towercost.scenario.units import UnitError, dimension_of, to_si
 
-__all__ = ["Scenario", "ScenarioError", "load_scenario", "parse_scenario", "gas_density"]
-
-#: Molar gas constant [J/(mol K)], CODATA 2018 exact value.
-GAS_CONSTANT = 8.314462618
-
-HENRY_SCALES = (
-    "Hcp", "mol/(m^3*Pa)", "M/atm", "Hcc", "mol/(kg*Pa)", "Hbp", "mol/(kg*atm)",
-    "Hxp", "1/atm", "alpha", "bunsen coefficient", "KHpx", "atm", "m^3*Pa/mol",
-    "KHpc", "m^3*atm/mol", "KHcc", "SI",
-)
+__all__ = ["Scenario", "HENRY_SCALES"]
 
 
 def _unit(unit: str):
@@ -103,7 +84,9 @@ class _Table(BaseModel):
     model_config = ConfigDict(extra="forbid", frozen=True)
 
 
-class Case(_Table):
+class CaseHeader(_Table):
+    """The ``[case]`` table: what the scenario is and which service it asks for."""
+
     name: str = Field(min_length=1)
     mode: Literal["absorb", "strip"]
     notes: str = ""
@@ -239,8 +222,8 @@ class Shell(_Table):
 
 class Column(_Table):
     tray: Literal["sieve", "valve"] = "sieve"
-    tray_spacing: Length = 0.6096  # [m]; 24 in, common practice
-    flood_fraction: Annotated[float, Field(gt=0, le=1)] = 0.80
+    tray_spacing: Length = defaults.TRAY_SPACING  # [m]; 24 in, common practice
+    flood_fraction: Annotated[float, Field(gt=0, le=1)] = defaults.FLOOD_FRACTION
     efficiency: Annotated[float, Field(gt=0, le=1)] | Literal["oconnell"] | Murphree = "oconnell"
 
     @field_validator("efficiency", mode="before")
@@ -256,10 +239,10 @@ class Column(_Table):
     max_height: Length = math.inf  # [m], tangent to tangent
     max_diameter: Length = math.inf  # [m]
     existing_shell: Shell | None = None
-    supply_pressure: Pressure = 101_325.0  # [Pa] the liquid is pumped from
+    supply_pressure: Pressure = defaults.SUPPLY_PRESSURE  # [Pa] the liquid is pumped from
     larger_diameters: Annotated[int, Field(ge=0, le=10)] = 2  # standard sizes above the least also tried
-    max_dilute: Annotated[float, Field(gt=0, lt=1)] = 0.01  # solute mole fraction; common practice
-    max_flow_change: Annotated[float, Field(gt=0, lt=1)] = 0.05  # fractional; common practice
+    max_dilute: Annotated[float, Field(gt=0, lt=1)] = defaults.MAX_DILUTE  # solute mole fraction; common practice
+    max_flow_change: Annotated[float, Field(gt=0, lt=1)] = defaults.MAX_FLOW_CHANGE  # fractional; common practice
 
     @model_validator(mode="after")
     def _ranges(self):
@@ -271,30 +254,30 @@ class Column(_Table):
 
 
 class Economics(_Table):
-    interest: Annotated[float, Field(ge=0, le=1)] = 0.10  # per year
-    life: Years = 10.0  # [yr]
-    hours: HoursPerYear = 8000.0  # [h/yr] of operation
-    electricity: PricePerEnergy = 0.08 / 3.6e6  # [USD/J]; bare numbers are USD/J, write "0.08 USD/kWh"
+    interest: Annotated[float, Field(ge=0, le=1)] = defaults.INTEREST  # per year
+    life: Years = defaults.LIFE  # [yr]
+    hours: HoursPerYear = defaults.HOURS  # [h/yr] of operation
+    electricity: PricePerEnergy = defaults.ELECTRICITY  # [USD/J]; bare numbers are USD/J, write "0.08 USD/kWh"
     steam: PricePerMass = 0.0  # [USD/kg]
     cooling_water: PricePerVolume = 0.0  # [USD/m3]
     cost_year: Annotated[int, Field(ge=1950, le=2100)] | None = None  # index year from models/data
     cost_index: Positive | None = None  # an index value of your own, overrides cost_year
-    contingency: Annotated[float, Field(ge=0, le=1)] = 0.15
-    fee: Annotated[float, Field(ge=0, le=1)] = 0.03
-    auxiliary: Annotated[float, Field(ge=0, le=2)] = 0.50
-    pump_efficiency: Annotated[float, Field(gt=0, le=1)] = 0.70
-    blower_efficiency: Annotated[float, Field(gt=0, le=1)] = 0.70
-    motor_efficiency: Annotated[float, Field(gt=0, le=1)] = 0.90
+    contingency: Annotated[float, Field(ge=0, le=1)] = defaults.CONTINGENCY
+    fee: Annotated[float, Field(ge=0, le=1)] = defaults.FEE
+    auxiliary: Annotated[float, Field(ge=0, le=2)] = defaults.AUXILIARY
+    pump_efficiency: Annotated[float, Field(gt=0, le=1)] = defaults.PUMP_EFFICIENCY
+    blower_efficiency: Annotated[float, Field(gt=0, le=1)] = defaults.BLOWER_EFFICIENCY
+    motor_efficiency: Annotated[float, Field(gt=0, le=1)] = defaults.MOTOR_EFFICIENCY
     credit: dict[str, PricePerMass] = {}  # [USD/kg] of solute recovered (regenerated agents only)
     solute_molar_mass: dict[str, MolarMass] = {}  # [kg/mol], needed for credit
     capital_budget: Money | None = None  # [USD] installed cost cap
     max_power: Power | None = None  # [W] electric power cap
     max_steam: MassFlow | None = None  # [kg/s] steam cap
-    margin: Annotated[float, Field(gt=0, lt=1)] = 0.03  # near-optimal band, fraction above best
+    margin: Annotated[float, Field(gt=0, lt=1)] = defaults.MARGIN  # near-optimal band, fraction above best
 
 
 class Scenario(_Table):
-    case: Case
+    case: CaseHeader
     feed: Feed
     spec: list[Spec] = Field(min_length=1)
     solvent: list[Agent] = []
@@ -353,155 +336,3 @@ class Scenario(_Table):
         return self
 
 
-_MISSING = object()
-
-
-def _user_path(data: Any, loc: tuple) -> tuple[tuple, bool]:
-    """The part of a pydantic location that names keys the user wrote.
-
-    Pydantic adds tags for union members ("Henry", "constrained-float") that
-    are not keys of the file; they are dropped. Returns the path and whether
-    all of it exists in the file (a missing key keeps its name at the end).
-    """
-    node, path = data, []
-    for i, key in enumerate(loc):
-        if isinstance(node, dict) and key in node:
-            node = node[key]
-            path.append(key)
-        elif isinstance(node, list) and isinstance(key, int) and 0 <= key < len(node):
-            node = node[key]
-            path.append(key)
-        elif i == len(loc) - 1 and isinstance(key, str) and isinstance(node, dict):
-            path.append(key)
-            return tuple(path), False
-    return tuple(path), True
-
-
-def _raw_at(data: Any, path: tuple) -> Any:
-    node = data
-    for key in path:
-        try:
-            node = node[key]
-        except (KeyError, IndexError, TypeError):
-            return _MISSING
-    return node
-
-
-def _location(data: Any, path: tuple) -> str:
-    """A key path as the user sees it: [feed] flow, [[solvent]] 'oil' k.toluene."""
-    if not path:
-        return ""
-    head, rest = path[0], list(path[1:])
-    if rest and isinstance(rest[0], int):
-        item = _raw_at(data, (head, rest[0]))
-        name = (item.get("name") or item.get("solute")) if isinstance(item, dict) else None
-        label = f"[[{head}]] {name!r}" if name else f"[[{head}]] #{rest[0] + 1}"
-        rest = rest[1:]
-    else:
-        label = f"[{head}]"
-    tail = ".".join(str(k) for k in rest)
-    return f"{label} {tail}".strip()
-
-
-def _models_in(annotation) -> list[type[BaseModel]]:
-    """The BaseModel classes inside an annotation such as list[Agent] or Henry | float."""
-    if isinstance(annotation, type) and issubclass(annotation, BaseModel):
-        return [annotation]
-    found: list[type[BaseModel]] = []
-    for arg in getattr(annotation, "__args__", ()) or ():
-        found += _models_in(arg)
-    return found
-
-
-def _known_keys(path: tuple) -> list[str]:
-    """The keys allowed beside the unknown key at the end of ``path``."""
-    models: list[type[BaseModel]] = [Scenario]
-    for key in path[:-1]:
-        if isinstance(key, int):
-            continue
-        nxt: list[type[BaseModel]] = []
-        for model in models:
-            field = model.model_fields.get(key)
-            if field is not None:
-                nxt += _models_in(field.annotation)
-            elif model.model_fields == {} or key not in model.model_fields:
-                # a dict of models (k.<solute>): the value's models apply
-                for f in model.model_fields.values():
-                    if getattr(f.annotation, "__origin__", None) is dict:
-                        nxt += _models_in(f.annotation.__args__[1])
-        models = nxt or models
-    keys: list[str] = []
-    for model in models:
-        keys += [k for k in model.model_fields if k not in keys]
-    return keys
-
-
-def _one_line(path: str, error: dict, data: Any) -> str:
-    """One pydantic error as one line: file, field, what is wrong, the value written."""
-    keys, exists = _user_path(data, tuple(error["loc"]))
-    where = _location(data, keys)
-    prefix = f"{path}, {where}" if where else path
-    kind = error["type"]
-    if kind == "extra_forbidden":
-        key = str(keys[-1])
-        known = _known_keys(keys)
-        near = difflib.get_close_matches(key, known, n=1)
-        hint = f"; did you mean {near[0]!r}?" if near else (f"; allowed: {', '.join(known)}" if known else "")
-        return f"{prefix}: unknown key{hint}"
-    if kind == "missing" or not exists:
-        return f"{prefix}: required value is missing"
-    raw = _raw_at(data, keys)
-    message = error["msg"].removeprefix("Value error, ")
-    shown = "" if raw is _MISSING or isinstance(raw, (dict, list)) or f"{raw!r}" in message else f", got {raw!r}"
-    return f"{prefix}: {message}{shown}"
-
-
-def _relevance(error: dict, data: Any) -> tuple:
-    """Rank errors: about a value the user wrote, deepest first; unknown keys next; missing last."""
-    keys, exists = _user_path(data, tuple(error["loc"]))
-    kind = {"extra_forbidden": 1.0, "missing": 0.0}.get(error["type"], 2.0)
-    if error["type"] == "extra_forbidden" and keys and keys[-1] in _known_keys(keys):
-        kind = 0.5  # a key that another form of the same value allows
-    return (exists, len(keys) if exists else 0, kind)
-
-
-def parse_scenario(data: dict, path: str = "scenario") -> Scenario:
-    """Validate a scenario already read into a dict; raise ScenarioError with one line."""
-    try:
-        return Scenario.model_validate(data)
-    except ValidationError as exc:
-        # One line: the most telling error (a union reports one per member).
-        best = max(exc.errors(), key=lambda e: _relevance(e, data))
-        raise ScenarioError(_one_line(path, best, data)) from None
-
-
-def load_scenario(path: str | Path) -> Scenario:
-    """Read and validate a scenario file.
-
-    Raises
-    ------
-    ScenarioError
-        The file is missing, is not TOML, or holds a value that cannot be
-        accepted; the message names the file, the field and the value.
-    """
-    path = Path(path)
-    try:
-        text = path.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise ScenarioError(f"{path}: no such file") from None
-    except OSError as exc:
-        raise ScenarioError(f"{path}: cannot be read ({exc.strerror})") from None
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise ScenarioError(f"{path}: not valid TOML ({exc})") from None
-    return parse_scenario(data, str(path))
-
-
-def gas_density(pressure, temperature, molar_mass):
-    """Ideal-gas density rho = P M / (R T) [kg/m3] from P [Pa], T [K], M [kg/mol].
-
-    >>> round(gas_density(101325.0, 273.15, 0.0289647), 4)
-    1.2922
-    """
-    return pressure * molar_mass / (GAS_CONSTANT * temperature)

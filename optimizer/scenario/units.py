@@ -32,8 +32,7 @@ def _import_pint():
 
 pint = _import_pint()
 
-#: Standard atmosphere [Pa], for gauge pressures (ISO 2533 / CGPM 1954 definition).
-STANDARD_ATMOSPHERE = 101_325.0
+from towercost.models.constants import STANDARD_ATMOSPHERE  # noqa: E402 - after the pint import on purpose
 
 _NUMBER = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
 

@@ -1,0 +1,69 @@
+"""Engineering defaults, each defined once: the models' keyword defaults and the scenario schema read them here.
+
+Every value is a designer's rule of thumb ("common practice") unless a
+source is named. Change a default here and both the relations in
+``towercost.models`` and the documented defaults of the scenario file follow.
+"""
+
+from __future__ import annotations
+
+from towercost.models.constants import INCH, STANDARD_ATMOSPHERE
+
+# --------------------------------------------------------------------------- tray column
+
+#: Tray spacing [m]: 24 in, common practice for columns above about 1 m.
+TRAY_SPACING = 24 * INCH
+
+#: Design fraction of flood [-]: 0.80, common practice for non-foaming systems.
+FLOOD_FRACTION = 0.80
+
+#: Space above the top tray and below the bottom tray [m]: common practice for estimating.
+TOP_SPACE = 1.2
+BOTTOM_SPACE = 1.8
+
+#: Allowance for piping, control valve and exchangers on the pumped liquid [Pa]: 0.7 bar, common practice.
+PUMP_ALLOWANCE = 70_000.0
+
+#: Allowance for ducts, inlet distributor and demister on the blown gas [Pa]: 1.5 kPa, common practice.
+BLOWER_ALLOWANCE = 1_500.0
+
+#: Pressure the liquid is pumped from [Pa]: an atmospheric tank.
+SUPPLY_PRESSURE = STANDARD_ATMOSPHERE
+
+# --------------------------------------------------------------------------- machines
+
+#: Pump, blower and electric-motor efficiencies [-]: common practice for estimating.
+PUMP_EFFICIENCY = 0.70
+BLOWER_EFFICIENCY = 0.70
+MOTOR_EFFICIENCY = 0.90
+
+# --------------------------------------------------------------------------- capital
+
+#: Contingency and contractor fee as fractions of the bare-module cost [-]:
+#: Turton et al., Analysis, Synthesis and Design of Chemical Processes, 4th ed., Section 7.3 (value from memory).
+CONTINGENCY = 0.15
+FEE = 0.03
+
+#: Auxiliary facilities as a fraction of the base bare-module cost [-]: Turton et al., 4th ed., Section 7.3 (value from memory).
+AUXILIARY = 0.50
+
+# --------------------------------------------------------------------------- dilute validity
+
+#: Solute mole fraction above which the dilute (straight-line) treatment is doubtful [-]: common practice.
+MAX_DILUTE = 0.01
+
+#: Fractional change of a stream's flow across the column above which constant L and V is doubtful [-]: common practice.
+MAX_FLOW_CHANGE = 0.05
+
+# --------------------------------------------------------------------------- economics
+
+#: Interest rate [1/yr], plant life [yr] and time on stream [h/yr]: common practice for study estimates.
+INTEREST = 0.10
+LIFE = 10.0
+HOURS = 8000.0
+
+#: Electricity price [USD/J] (0.08 USD/kWh): common practice for a study estimate, to be replaced by the site's price.
+ELECTRICITY = 0.08 / 3.6e6
+
+#: Near-optimal band: designs within this fraction of the best annualized cost [-].
+MARGIN = 0.03

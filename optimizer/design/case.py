@@ -1,0 +1,253 @@
+"""The case: a validated scenario reduced to plain SI numbers and arrays, the one input of the design.
+
+``prepare(scenario)`` computes what every alternative shares: K-values at
+column conditions, tray efficiencies, the outlet targets, the phases'
+properties per candidate and the economic inputs. Nothing here depends on a
+design decision.
+
+Shapes: ``(n_agents, n_solutes)`` where two axes are shown.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from towercost.errors import ScenarioError
+from towercost.models import costing, economics, efficiency, equilibrium
+from towercost.models.properties import ideal_gas_density
+from towercost.design.service import Service, service_for
+from towercost.scenario.schema import Scenario
+from towercost.scenario.units import mole_fraction_text
+
+
+@dataclass(frozen=True)
+class Economics:
+    """The economic inputs of the annualized cost.
+
+    Every field may be a number or an array with a leading sample axis (the
+    uncertainty study samples them); ``towercost.design.costlines.annualize``
+    broadcasts over it.
+    """
+
+    interest: float                 # [1/yr]
+    life: float                     # [yr]
+    capital_recovery: float         # [1/yr], from interest and life
+    hours: float                    # [h/yr] on stream
+    electricity: float              # [USD/J]
+    steam: float                    # [USD/kg]
+    cooling_water: float            # [USD/m3]
+    index_to: float                 # cost index of the estimate
+    index_year: int | None          # its year, when taken from the table
+    contingency: float              # fraction of the bare-module cost
+    fee: float                      # fraction of the bare-module cost
+    auxiliary: float                # fraction of the base bare-module cost
+
+
+@dataclass(frozen=True)
+class Case:
+    """A scenario in SI: the one input of the evaluation (``towercost.design.column``)."""
+
+    name: str
+    service: Service
+    agents: tuple[str, ...]
+    solutes: tuple[str, ...]
+    feed_flow: float                # [mol/s] of the stream to treat
+    temperature: float              # [K]
+    pressure: float                 # [Pa] at the column
+    feed_in: np.ndarray             # (n_solutes,) mole fraction entering with the feed
+    target: np.ndarray              # (n_solutes,) allowed outlet mole fraction; inf: no spec
+    k_value: np.ndarray             # (n_agents, n_solutes) K = y/x at column conditions
+    lean: np.ndarray                # (n_agents, n_solutes) solute mole fraction in the entering agent
+    efficiency: np.ndarray          # (n_agents, n_solutes) overall efficiency; NaN where Murphree applies
+    murphree: float | None          # Murphree vapour efficiency when the column uses it
+    # phases, per agent (absorb: the liquid is the agent; strip: the gas is)
+    liquid_molar_mass: np.ndarray   # (n_agents,) [kg/mol]
+    liquid_density: np.ndarray      # (n_agents,) [kg/m3]
+    liquid_viscosity: np.ndarray    # (n_agents,) [Pa s]
+    surface_tension: np.ndarray     # (n_agents,) [N/m]
+    gas_molar_mass: np.ndarray      # (n_agents,) [kg/mol]
+    gas_density: np.ndarray         # (n_agents,) [kg/m3] at column conditions
+    # agents' economics
+    price: np.ndarray               # (n_agents,) [USD/kg] fresh agent
+    disposal: np.ndarray            # (n_agents,) [USD/kg] spent agent
+    regenerated: np.ndarray         # (n_agents,) bool
+    loss: np.ndarray                # (n_agents,) fraction of the circulation lost per pass
+    steam_ratio: np.ndarray         # (n_agents,) [kg/kg] regeneration steam per kg circulated
+    cooling_ratio: np.ndarray       # (n_agents,) [m3/kg] regeneration cooling water per kg circulated
+    credit: np.ndarray              # (n_solutes,) [USD/mol] of recovered solute
+    # column
+    tray: str
+    tray_spacing: float             # [m]
+    flood_fraction: float
+    material: str
+    supply_pressure: float          # [Pa] the liquid is pumped from
+    pump_efficiency: float
+    blower_efficiency: float
+    motor_efficiency: float
+    # the space searched
+    trays_range: tuple[int, int]
+    ratio_range: tuple[float, float]
+    ratio_levels: int
+    larger_diameters: int           # standard sizes above the least one also offered
+    # per-design limits
+    max_height: float               # [m]
+    max_diameter: float             # [m]
+    shell_diameter: float | None    # [m] of an existing shell
+    shell_max_trays: int | None
+    capital_budget: float | None    # [USD]
+    max_power: float | None         # [W]
+    max_steam: float | None         # [kg/s]
+    # dilute-validity thresholds
+    max_dilute: float
+    max_flow_change: float
+    economics: Economics
+    margin: float                   # near-optimal band
+    notes: tuple[str, ...] = ()     # warnings raised while preparing the case
+
+    @property
+    def mode(self) -> str:
+        return self.service.mode
+
+
+def _k_values(scenario: Scenario, notes: list[str]) -> np.ndarray:
+    """K = y/x at column conditions for every agent and solute."""
+    feed, solutes = scenario.feed, scenario.solutes
+    absorb = scenario.case.mode == "absorb"
+    table = np.empty((len(scenario.agents), len(solutes)))
+    for a, agent in enumerate(scenario.agents):
+        liquid_m = agent.molar_mass if absorb else feed.molar_mass
+        liquid_rho = agent.density if absorb else feed.density
+        for s, solute in enumerate(solutes):
+            source = agent.k[solute]
+            if isinstance(source, float):
+                table[a, s] = source
+            elif hasattr(source, "vapour_pressure"):
+                table[a, s] = equilibrium.k_from_vapour_pressure(
+                    source.vapour_pressure, feed.pressure, source.activity_coefficient
+                )
+            else:
+                table[a, s] = equilibrium.k_at_conditions(
+                    source.henry, source.scale, source.temperature, source.slope,
+                    feed.temperature, feed.pressure,
+                    liquid_molar_density=liquid_rho / liquid_m, liquid_molar_mass=liquid_m,
+                    warnings=notes,
+                )
+    return table
+
+
+def _targets(scenario: Scenario) -> np.ndarray:
+    """Allowed outlet mole fraction of each solute in the treated stream (inf: no spec)."""
+    feed = scenario.feed
+    target = np.full(len(scenario.solutes), np.inf)
+    for spec in scenario.spec:
+        s = scenario.solutes.index(spec.solute)
+        if spec.outlet is not None:
+            target[s] = spec.outlet
+        elif spec.removal is not None:
+            target[s] = (1.0 - spec.removal) * feed.composition[spec.solute]
+        else:
+            target[s] = spec.outlet_mass_rate / spec.solute_molar_mass / feed.flow
+    return target
+
+
+def _economics(scenario: Scenario) -> Economics:
+    eco = scenario.economics
+    if eco.cost_index is not None:
+        index_to, index_year = eco.cost_index, None
+    else:
+        index_year = eco.cost_year if eco.cost_year is not None else costing.latest_cost_year()
+        try:
+            index_to = float(costing.cost_index(index_year))
+        except ValueError as exc:
+            raise ScenarioError(f"[economics] cost_year: {exc}") from None
+    return Economics(
+        interest=eco.interest, life=eco.life,
+        capital_recovery=float(economics.capital_recovery_factor(eco.interest, eco.life)),
+        hours=eco.hours, electricity=eco.electricity, steam=eco.steam, cooling_water=eco.cooling_water,
+        index_to=index_to, index_year=index_year, contingency=eco.contingency, fee=eco.fee,
+        auxiliary=eco.auxiliary,
+    )
+
+
+def _efficiencies(scenario: Scenario, k_value, liquid_m, liquid_mu, liquid_rho, notes):
+    """Overall tray efficiency per agent and solute, and the Murphree efficiency where the column gives one."""
+    col = scenario.column
+    murphree = None
+    if col.efficiency == "oconnell":
+        eff = efficiency.oconnell_absorber(
+            k_value, liquid_m[:, None], liquid_mu[:, None], liquid_rho[:, None], warnings=notes
+        )
+    elif isinstance(col.efficiency, float):
+        eff = np.full(k_value.shape, col.efficiency)
+    else:
+        murphree = col.efficiency.murphree
+        eff = np.full(k_value.shape, np.nan)
+    eff = np.array(eff, dtype=float)
+    for a, agent in enumerate(scenario.agents):
+        if agent.efficiency is not None:
+            eff[a, :] = agent.efficiency
+    return eff, murphree
+
+
+def prepare(scenario: Scenario) -> Case:
+    """Reduce a validated scenario to the plain arrays the evaluation needs."""
+    notes: list[str] = []
+    feed, col, eco = scenario.feed, scenario.column, scenario.economics
+    service = service_for(scenario.case.mode)
+    agents, solutes = scenario.agents, scenario.solutes
+    n_agents = len(agents)
+    k_value = _k_values(scenario, notes)
+    lean = np.array([[a.lean.get(s, 0.0) for s in solutes] for a in agents])
+
+    def per_agent(attr, fallback=None):
+        return np.array([getattr(a, attr) if getattr(a, attr) is not None else fallback for a in agents], dtype=float)
+
+    if service.agent_is_liquid:
+        liquid_m, liquid_rho = per_agent("molar_mass"), per_agent("density")
+        liquid_mu, sigma = per_agent("viscosity"), per_agent("surface_tension")
+        gas_m = np.full(n_agents, feed.molar_mass)
+    else:
+        liquid_m, liquid_rho = np.full(n_agents, feed.molar_mass), np.full(n_agents, feed.density)
+        liquid_mu, sigma = np.full(n_agents, feed.viscosity), np.full(n_agents, feed.surface_tension)
+        gas_m = per_agent("molar_mass")
+    rho_gas = np.asarray(ideal_gas_density(feed.pressure, feed.temperature, gas_m), dtype=float)
+    eff, murphree = _efficiencies(scenario, k_value, liquid_m, liquid_mu, liquid_rho, notes)
+
+    credit = np.array([eco.credit[s] * eco.solute_molar_mass[s] if s in eco.credit else 0.0 for s in solutes])
+    target = _targets(scenario)
+    feed_in = np.array([feed.composition[s] for s in solutes])
+    if np.all(target >= feed_in):
+        shown = ", ".join(f"{s} {mole_fraction_text(x)} in, {mole_fraction_text(t)} allowed"
+                          for s, x, t in zip(solutes, feed_in, target) if np.isfinite(t))
+        raise ScenarioError(f"[[spec]]: the feed already meets every spec ({shown}); no column is needed")
+    shell = col.existing_shell
+    return Case(
+        name=scenario.case.name, service=service, agents=tuple(a.name for a in agents), solutes=tuple(solutes),
+        feed_flow=feed.flow, temperature=feed.temperature, pressure=feed.pressure,
+        feed_in=feed_in, target=target, k_value=k_value, lean=lean, efficiency=eff, murphree=murphree,
+        liquid_molar_mass=liquid_m, liquid_density=liquid_rho, liquid_viscosity=liquid_mu,
+        surface_tension=sigma, gas_molar_mass=gas_m, gas_density=rho_gas,
+        price=per_agent("price"), disposal=per_agent("disposal"),
+        regenerated=np.array([a.regenerated for a in agents]), loss=per_agent("loss"),
+        steam_ratio=per_agent("regeneration_steam"), cooling_ratio=per_agent("regeneration_cooling"),
+        credit=credit,
+        tray=col.tray, tray_spacing=col.tray_spacing, flood_fraction=col.flood_fraction, material=col.material,
+        supply_pressure=col.supply_pressure, pump_efficiency=eco.pump_efficiency,
+        blower_efficiency=eco.blower_efficiency, motor_efficiency=eco.motor_efficiency,
+        trays_range=tuple(col.trays), ratio_range=tuple(col.ratio), ratio_levels=col.ratio_levels,
+        larger_diameters=col.larger_diameters,
+        max_height=col.max_height, max_diameter=col.max_diameter,
+        shell_diameter=shell.diameter if shell else None, shell_max_trays=shell.max_trays if shell else None,
+        capital_budget=eco.capital_budget, max_power=eco.max_power, max_steam=eco.max_steam,
+        max_dilute=col.max_dilute, max_flow_change=col.max_flow_change,
+        economics=_economics(scenario), margin=eco.margin, notes=tuple(notes),
+    )
+
+
+def agent_index(case: Case, name: str) -> int:
+    """The index of the candidate called ``name``; ScenarioError listing the names if none."""
+    if name not in case.agents:
+        raise ScenarioError(f"no candidate named {name!r}; the scenario has {', '.join(map(repr, case.agents))}")
+    return case.agents.index(name)

@@ -1,0 +1,235 @@
+"""The one-column flowsheet: one absorber or stripper with its pump and blower.
+
+A design is a candidate agent, a count of real trays, an agent rate and a
+shell diameter. ``SingleColumn.evaluate`` prices any set of design points
+exactly, all in one call (numpy broadcasting):
+
+    cascade (towercost.design.cascade)  ->  outlets, factors, stages
+    internals (towercost.design.internals)  ->  diameter, height, pressure drop
+    vessel (towercost.models.vessel)  ->  design pressure, wall, weights
+    machines (towercost.models.economics)  ->  pump and blower power
+    cost lines (towercost.design.costlines)  ->  capital, operating, annualized
+    limits (towercost.design.limits)  ->  within_limits
+
+``SingleColumn.alternatives`` enumerates the design space in chunks: for each
+agent and tray count, the least rate meeting every spec (exact Kremser
+inverse) and the ratio levels above it; for each rate, the least standard
+diameter and ``larger_diameters`` sizes above it.
+
+A regenerated agent's regenerator enters only through the scenario's steam
+and cooling water per kg circulated; its equipment is not modelled here.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterator
+from dataclasses import dataclass
+
+import numpy as np
+
+from towercost.design import cascade
+from towercost.design.case import Case
+from towercost.design.costlines import (AGENT, COOLING, DISPOSAL, ELECTRICITY, STEAM, Equipment, ItemSpec, Uses,
+                                        annualize, credit_spec, price_item)
+from towercost.design.designs import Designs
+from towercost.design.internals import Loads, Trays
+from towercost.design.limits import limit_table, limits_met
+from towercost.models import defaults, economics, vessel
+from towercost.models.constants import GRAVITY, STANDARD_ATMOSPHERE
+from towercost.models.properties import ideal_gas_density
+
+#: Plate for the shell in each column material (models/data/materials.toml).
+PLATE = {"carbon_steel": "SA-516-70", "ss304": "SA-240-304", "ss316": "SA-240-316"}
+
+SHELL = ItemSpec("tower_shell", "T-101", "tower shell", "vessel_vertical")
+PUMP = ItemSpec("pump", "P-101", "liquid feed pump", "pump_centrifugal")
+BLOWER = ItemSpec("blower", "K-101", "gas blower", "blower_centrifugal")
+
+#: Rate grid points closer than this (relative) to the least rate are not offered again.
+SAME_RATE = 1e-9
+
+#: Alternatives evaluated per call when the space is enumerated in chunks.
+CHUNK = 1 << 17
+
+
+@dataclass(frozen=True)
+class Chunk:
+    """A batch of alternatives: decisions plus where each came from."""
+
+    agent: np.ndarray
+    trays: np.ndarray
+    rate: np.ndarray
+    diameter: np.ndarray     # NaN: the least standard size
+    least: np.ndarray        # the least rate of its (agent, trays) group
+
+
+class SingleColumn:
+    """One column, its pump and its blower, for one case."""
+
+    def __init__(self, case: Case):
+        self.case = case
+        self.service = case.service
+        self.internals = Trays(case.tray, case.tray_spacing, case.flood_fraction, case.material)
+
+    # ----------------------------------------------------------------- enumeration
+
+    def rate_grid(self) -> np.ndarray:
+        """The ratio levels (geometric between the scenario's bounds), (ratio_levels,)."""
+        lo, hi = self.case.ratio_range
+        return np.geomspace(lo, hi, self.case.ratio_levels)
+
+    def groups(self, agents=None) -> tuple[np.ndarray, np.ndarray]:
+        """Every (agent, trays) pair searched, as two flat arrays."""
+        case = self.case
+        chosen = np.arange(len(case.agents)) if agents is None else np.asarray(agents, dtype=int)
+        trays = np.arange(case.trays_range[0], case.trays_range[1] + 1)
+        grid_agent, grid_trays = np.meshgrid(chosen, trays, indexing="ij")
+        return grid_agent.ravel(), grid_trays.ravel()
+
+    def diameters_per_rate(self) -> int:
+        case = self.case
+        return 1 if case.shell_diameter is not None else 1 + case.larger_diameters
+
+    def estimate(self) -> int:
+        """An upper bound on the alternatives ``alternatives`` yields, without evaluating anything."""
+        case = self.case
+        n_groups = len(case.agents) * (case.trays_range[1] - case.trays_range[0] + 1)
+        return n_groups * (case.ratio_levels + 1) * self.diameters_per_rate()
+
+    def alternatives(self, agents=None, chunk: int = CHUNK) -> Iterator[Chunk]:
+        """The design space in batches of about ``chunk`` alternatives."""
+        case = self.case
+        grid_agent, grid_trays = self.groups(agents)
+        rate_min = cascade.minimum_rate(case, grid_agent)
+        lo, hi = case.ratio_range
+        least = np.maximum(cascade.least_rate(case, grid_agent, grid_trays), lo * rate_min)
+        levels = self.rate_grid()
+        reach = np.isfinite(least) & (least <= hi * rate_min * (1 + 1e-12))
+        per_rate = self.diameters_per_rate()
+        groups = np.flatnonzero(reach)
+        per_group = (1 + levels.size) * per_rate
+        step = max(1, chunk // per_group)
+        for start in range(0, groups.size, step):
+            g = groups[start:start + step]
+            grid_rates = rate_min[g, None] * levels[None, :]
+            above = grid_rates > least[g, None] * (1 + SAME_RATE)
+            g_idx, l_idx = np.nonzero(above)
+            group = np.concatenate([g, g[g_idx]])
+            rate = np.concatenate([least[g], grid_rates[g_idx, l_idx]])
+            is_least = np.concatenate([np.ones(g.size, bool), np.zeros(g_idx.size, bool)])
+            yield Chunk(grid_agent[group], grid_trays[group], rate, np.full(rate.shape, np.nan), is_least)
+
+    def widen(self, base: Designs, least: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """The larger standard diameters offered for each base design: (repeat index, diameters, least flags)."""
+        case = self.case
+        if case.shell_diameter is not None or case.larger_diameters == 0:
+            return np.zeros(0, int), np.zeros(0), np.zeros(0, bool)
+        steps = np.arange(1, case.larger_diameters + 1)
+        wider = self.internals.larger(base.diameter, steps).ravel()
+        repeat = np.repeat(np.arange(len(base)), steps.size)
+        return repeat, wider, least[repeat]
+
+    # ----------------------------------------------------------------- evaluation
+
+    def evaluate(self, agent, trays, rate, diameter=None) -> Designs:
+        """Evaluate design points exactly.
+
+        Arrays of agent index, real trays, agent rate [mol/s] and, optionally,
+        the shell diameter [m] (NaN or None: the least standard size the
+        flooding limit allows, or the scenario's existing shell).
+        """
+        case, service = self.case, self.service
+        if diameter is None:
+            diameter = np.nan if case.shell_diameter is None else case.shell_diameter
+        agent, trays, rate, diameter = (a.ravel() for a in np.broadcast_arrays(
+            np.asarray(agent, dtype=int), np.asarray(trays, dtype=float), np.asarray(rate, dtype=float),
+            np.asarray(diameter, dtype=float)))
+        notes: list[str] = list(case.notes)
+
+        out, agent_out, factor, stages = cascade.outlet(case, agent, trays, rate)
+        meets = cascade.meets_spec(case, out)
+        rate_min = cascade.minimum_rate(case, agent)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ratio = np.where(rate_min > 0, rate / rate_min, np.inf)
+        liquid, gas = service.flows(rate, case.feed_flow)
+        liquid_mass = liquid * case.liquid_molar_mass[agent]
+        gas_mass = gas * case.gas_molar_mass[agent]
+        rho_l = case.liquid_density[agent]
+        loads = Loads(gas_mass, liquid_mass, case.gas_density[agent], rho_l, case.surface_tension[agent])
+        size = self.internals.size(loads, trays, diameter, warnings=notes)
+        diameter, height = size.diameter, size.height
+
+        # Vessel: estimating figures only, not a mechanical design.
+        plate = PLATE[case.material]
+        p_design = vessel.design_pressure(case.pressure, warnings=notes)
+        t_design = vessel.design_temperature(case.temperature)
+        stress = vessel.allowable_stress(plate, t_design, warnings=notes)
+        wall = vessel.wall_thickness(p_design, diameter, stress, warnings=notes)
+        head = vessel.round_up_to_plate(vessel.head_thickness(p_design, diameter, stress))
+        shell_kg = vessel.shell_weight(diameter, height, wall, vessel.metal_density(plate))
+        trays_kg = vessel.tray_weight(diameter, trays)
+        area = math.pi / 4.0 * diameter**2
+        volume = area * height
+
+        # Pump for the liquid fed to the top; blower for the gas fed to the bottom.
+        q_liquid = liquid_mass / rho_l
+        pump_rise = (np.maximum(case.pressure - case.supply_pressure, 0.0) + rho_l * GRAVITY * height
+                     + defaults.PUMP_ALLOWANCE)
+        pump_shaft = economics.pump_power(q_liquid, pump_rise, case.pump_efficiency)
+        gas_supply = service.gas_supply_pressure(case.pressure)
+        blower_rise = size.pressure_drop + defaults.BLOWER_ALLOWANCE + max(case.pressure - gas_supply, 0.0)
+        q_gas = gas_mass / ideal_gas_density(gas_supply, case.temperature, case.gas_molar_mass[agent])
+        blower_shaft = economics.blower_power(q_gas, gas_supply, blower_rise, case.blower_efficiency)
+        electric = (economics.electric_power(pump_shaft, case.motor_efficiency)
+                    + economics.electric_power(blower_shaft, case.motor_efficiency))
+
+        # Equipment rows, each at its correlation's cost basis.
+        p_gauge = np.maximum(p_design, 0.0)
+        pump_discharge = case.supply_pressure + pump_rise - STANDARD_ATMOSPHERE
+        items = [price_item(SHELL, volume, material=case.material, pressure_gauge=p_gauge, diameter=diameter,
+                            warnings=notes)]
+        items += self.internals.items(diameter, trays, warnings=notes)
+        items += [price_item(PUMP, pump_shaft / 1000.0, material=case.material, pressure_gauge=pump_discharge,
+                             warnings=notes),
+                  price_item(BLOWER, q_gas, pressure_gauge=blower_rise, warnings=notes)]
+        equipment = Equipment.stack(items)
+
+        # Consumption rows.
+        agent_mass = liquid_mass if service.agent_is_liquid else gas_mass
+        regen = case.regenerated[agent]
+        purge = np.where(regen, case.loss[agent] * agent_mass, agent_mass)
+        steam_rate = np.where(regen, case.steam_ratio[agent] * agent_mass, 0.0)
+        cooling_rate = np.where(regen, case.cooling_ratio[agent] * agent_mass, 0.0)
+        eco = case.economics
+        rows = [(ELECTRICITY, electric, eco.electricity), (AGENT, purge, case.price[agent]),
+                (DISPOSAL, purge, case.disposal[agent]), (STEAM, steam_rate, eco.steam),
+                (COOLING, cooling_rate, eco.cooling_water)]
+        removed = case.feed_in - out  # per mol of treated stream
+        for s, solute in enumerate(case.solutes):
+            if case.credit[s] > 0:
+                rows.append((credit_spec(solute), np.where(regen, case.feed_flow * removed[:, s], 0.0),
+                             case.credit[s]))
+        uses = Uses.stack(rows)
+        annual = annualize(equipment, uses, eco)
+
+        figures = dict(
+            rate_min=rate_min, ratio=ratio, factor=factor, stages=stages, outlet=out, agent_outlet=agent_out,
+            meets_spec=meets, liquid_flow=liquid, gas_flow=gas, liquid_mass_flow=liquid_mass,
+            gas_mass_flow=gas_mass, flow_parameter=size.flow_parameter, flooding_velocity=size.flooding_velocity,
+            diameter_required=size.diameter_required, fraction_of_flood=size.fraction_of_flood_at_standard_diameter,
+            height=height, pressure_drop_per_tray=size.pressure_drop_per_tray, pressure_drop=size.pressure_drop,
+            design_pressure=np.broadcast_to(p_design, rate.shape).astype(float),
+            design_temperature=np.broadcast_to(t_design, rate.shape).astype(float),
+            wall_thickness=wall, head_thickness=head, shell_weight=shell_kg, tray_weight=trays_kg, volume=volume,
+            cross_section=area, liquid_volumetric_flow=q_liquid, pump_head=pump_rise, pump_shaft_power=pump_shaft,
+            gas_inlet_flow=q_gas, blower_rise=blower_rise, blower_shaft_power=blower_shaft,
+            electric_power=electric, steam_rate=steam_rate, cooling_rate=cooling_rate, makeup_rate=purge,
+            bare_module=annual.bare_module, total_module=annual.total_module, installed=annual.installed,
+            operating=annual.operating, credit=annual.credit, capital_charge=annual.capital_charge,
+            annualized=annual.annualized, purchased=annual.purchased, bare_module_items=annual.bare_module_items,
+            use_cost=annual.use_cost,
+        )
+        designs = Designs(agent, trays.astype(int), rate, diameter, figures, equipment, uses, notes)
+        designs.figures["within_limits"] = limits_met(limit_table(case, designs), len(designs))
+        return designs

@@ -1,0 +1,139 @@
+"""Evaluated design points: decisions, every figure, and the cost lines, one entry per point.
+
+``Designs`` holds arrays of equal length n: the four decisions (agent,
+real trays, agent rate, shell diameter), the figures named in ``FIGURES``
+(one array each, or (n, solutes) for the per-solute ones), and the
+equipment and consumption rows (``towercost.design.costlines``). Figures
+are read as attributes (``designs.height``); ``to_frame`` gives a pandas
+table with one row per design and one column per figure.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from towercost.design.costlines import Equipment, Uses
+
+#: Every figure of a design: name -> (unit, meaning). The one list the tables, CSV and JSON draw on.
+FIGURES: dict[str, tuple[str, str]] = {
+    "rate_min": ("mol/s", "least agent rate with unlimited stages"),
+    "ratio": ("-", "agent rate over its minimum (L/Lmin or G/Gmin)"),
+    "factor": ("-", "absorption factor A or stripping factor S, per solute"),
+    "stages": ("-", "theoretical stages, per solute"),
+    "outlet": ("-", "treated-stream outlet mole fraction, per solute"),
+    "agent_outlet": ("-", "agent outlet mole fraction, per solute"),
+    "meets_spec": ("", "every solute meets its spec"),
+    "within_limits": ("", "every limit of the scenario is met"),
+    "liquid_flow": ("mol/s", "liquid molar flow"),
+    "gas_flow": ("mol/s", "gas molar flow"),
+    "liquid_mass_flow": ("kg/s", "liquid mass flow"),
+    "gas_mass_flow": ("kg/s", "gas mass flow"),
+    "flow_parameter": ("-", "flow parameter F_LV of the flooding correlation"),
+    "flooding_velocity": ("m/s", "gas velocity at flood on the net area"),
+    "diameter_required": ("m", "diameter at the design fraction of flood"),
+    "fraction_of_flood": ("-", "fraction of flood at the shell diameter"),
+    "height": ("m", "tangent-to-tangent height"),
+    "pressure_drop_per_tray": ("Pa", "gas pressure drop per tray"),
+    "pressure_drop": ("Pa", "gas pressure drop of the column"),
+    "design_pressure": ("Pa gauge", "vessel design pressure"),
+    "design_temperature": ("K", "vessel design temperature"),
+    "wall_thickness": ("m", "shell plate thickness"),
+    "head_thickness": ("m", "head plate thickness"),
+    "shell_weight": ("kg", "shell and heads metal"),
+    "tray_weight": ("kg", "tray metal"),
+    "volume": ("m3", "shell volume (the vessel cost basis)"),
+    "cross_section": ("m2", "tower cross-section (the tray cost basis)"),
+    "liquid_volumetric_flow": ("m3/s", "pumped liquid flow"),
+    "pump_head": ("Pa", "pump pressure rise"),
+    "pump_shaft_power": ("W", "pump shaft power"),
+    "gas_inlet_flow": ("m3/s", "actual gas flow at the blower inlet"),
+    "blower_rise": ("Pa", "blower pressure rise"),
+    "blower_shaft_power": ("W", "blower shaft power"),
+    "electric_power": ("W", "electric power of pump and blower motors"),
+    "steam_rate": ("kg/s", "regeneration steam"),
+    "cooling_rate": ("m3/s", "regeneration cooling water"),
+    "makeup_rate": ("kg/s", "fresh agent bought (once through) or made up (regenerated)"),
+    "bare_module": ("USD", "sum of the bare-module costs"),
+    "total_module": ("USD", "total module cost (with contingency and fee)"),
+    "installed": ("USD", "grassroots capital (with auxiliary facilities)"),
+    "operating": ("USD/yr", "operating cost"),
+    "credit": ("USD/yr", "credit for recovered solute"),
+    "capital_charge": ("USD/yr", "capital recovery x installed cost"),
+    "annualized": ("USD/yr", "total annualized cost"),
+    "purchased": ("USD", "purchased cost per equipment item, at the estimate's index"),
+    "bare_module_items": ("USD", "bare-module cost per equipment item, at the estimate's index"),
+    "use_cost": ("USD/yr", "yearly cost (or credit) per consumption row"),
+}
+
+DECISIONS = ("agent", "trays", "rate", "diameter")
+
+
+@dataclass
+class Designs:
+    """Design points and all their figures; every array has n entries along its first axis."""
+
+    agent: np.ndarray                # index into case.agents
+    trays: np.ndarray                # real trays
+    rate: np.ndarray                 # agent rate [mol/s]
+    diameter: np.ndarray             # shell inside diameter [m]
+    figures: dict[str, np.ndarray]   # the entries of FIGURES
+    equipment: Equipment
+    uses: Uses
+    warnings: list[str] = field(default_factory=list)
+
+    def __getattr__(self, name: str):
+        figures = self.__dict__.get("figures")
+        if figures is not None and name in figures:
+            return figures[name]
+        raise AttributeError(name)
+
+    def __len__(self) -> int:
+        return int(self.agent.shape[0])
+
+    def take(self, index) -> "Designs":
+        """The designs at ``index`` (an integer array or a mask)."""
+        return Designs(self.agent[index], self.trays[index], self.rate[index], self.diameter[index],
+                       {k: v[index] for k, v in self.figures.items()}, self.equipment.take(index),
+                       self.uses.take(index), list(self.warnings))
+
+    @classmethod
+    def concatenate(cls, parts: list["Designs"]) -> "Designs":
+        """One Designs from several, in order; warnings merged without repeats."""
+        merged: list[str] = []
+        for part in parts:
+            merged += [w for w in part.warnings if w not in merged]
+        first = parts[0]
+        return cls(*(np.concatenate([getattr(p, name) for p in parts]) for name in DECISIONS),
+                   {k: np.concatenate([p.figures[k] for p in parts]) for k in first.figures},
+                   Equipment.concatenate([p.equipment for p in parts]), Uses.concatenate([p.uses for p in parts]),
+                   merged)
+
+    def to_frame(self, case=None):
+        """A pandas table: one row per design, one column per decision, figure, item and use.
+
+        Per-solute figures become one column per solute (``outlet[toluene]``);
+        item and use figures one column per row (``purchased[T-101]``).
+        With the case given, the agent column holds names.
+        """
+        import pandas as pd
+
+        columns: dict[str, np.ndarray] = {}
+        columns["agent"] = (np.asarray(case.agents, dtype=object)[self.agent] if case is not None else self.agent)
+        for name in ("trays", "rate", "diameter"):
+            columns[name] = getattr(self, name)
+        solutes = list(case.solutes) if case is not None else None
+        for name, values in self.figures.items():
+            if values.ndim == 1:
+                columns[name] = values
+                continue
+            if name in ("purchased", "bare_module_items"):
+                labels = [s.tag for s in self.equipment.specs]
+            elif name == "use_cost":
+                labels = [s.key for s in self.uses.specs]
+            else:
+                labels = solutes or [str(s) for s in range(values.shape[1])]
+            for j, label in enumerate(labels):
+                columns[f"{name}[{label}]"] = values[:, j]
+        return pd.DataFrame(columns)

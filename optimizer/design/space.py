@@ -1,0 +1,165 @@
+"""The design space of a case, evaluated exactly, kept compact.
+
+``build_space`` enumerates the flowsheet's alternatives in chunks, evaluates
+each chunk exactly (``SingleColumn.evaluate``) and keeps only what selection
+and ranking need: the decisions, the total annualized cost, whether every
+limit is met, whether the point is the least rate of its group, and the
+columns of any shared resources asked for. Peak memory stays near one
+chunk's full evaluation plus about 30 bytes per alternative.
+
+A ``Space`` re-evaluates any subset of its alternatives in full on demand
+(``designs``); the figures reported are always such re-evaluations.
+
+Ties in cost are ordered by one key everywhere (``TIE_KEY``): cost, then
+fewer trays, then lower rate, then smaller diameter, then candidate order.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from towercost.design import cascade
+from towercost.design.case import Case
+from towercost.design.column import CHUNK, SingleColumn
+from towercost.design.designs import Designs
+from towercost.design.limits import limit_table
+
+#: The order of alternatives of equal cost, first key first.
+TIE_KEY = ("annualized cost", "fewer trays", "lower rate", "smaller diameter", "candidate order")
+
+#: Shared resources a space can keep a column of (figure names of ``Designs``).
+RESOURCES = ("installed", "electric_power", "steam_rate", "cooling_rate")
+
+
+@dataclass
+class LimitFloor:
+    """The least value any spec-meeting design reached for one limit: why no design qualifies, in figures."""
+
+    label: str
+    unit: str
+    bound: float
+    least: float = np.inf
+
+
+@dataclass
+class Space:
+    """Every alternative of a case, evaluated: the one input of the selection model and of the scan."""
+
+    case: Case
+    flowsheet: SingleColumn
+    agent: np.ndarray            # candidate index
+    trays: np.ndarray            # real trays
+    rate: np.ndarray             # agent rate [mol/s]
+    diameter: np.ndarray         # shell diameter [m]
+    cost: np.ndarray             # total annualized cost [USD/yr]
+    feasible: np.ndarray         # meets every spec and every limit
+    least: np.ndarray            # the least rate of its (agent, trays) group
+    usage: dict[str, np.ndarray] = field(default_factory=dict)   # shared-resource columns kept
+    floors: dict[str, LimitFloor] = field(default_factory=dict)  # per limit, over spec-meeting designs
+    spec_met: int = 0            # alternatives that meet every spec
+    agents: np.ndarray = field(default_factory=lambda: np.zeros(0, int))   # candidates covered
+
+    def __len__(self) -> int:
+        return int(self.agent.shape[0])
+
+    @property
+    def ratio(self) -> np.ndarray:
+        """Agent rate over its minimum (L/Lmin or G/Gmin)."""
+        rate_min = cascade.minimum_rate(self.case, np.arange(len(self.case.agents)))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            return self.rate / rate_min[self.agent]
+
+    @property
+    def group(self) -> np.ndarray:
+        """The (agent, trays) group of each alternative, as one integer."""
+        lo, hi = self.case.trays_range
+        return self.agent * (hi - lo + 1) + (self.trays - lo)
+
+    def tie_order(self, index=None) -> np.ndarray:
+        """``index`` (default: all) sorted by ``TIE_KEY``."""
+        index = np.arange(len(self)) if index is None else np.asarray(index, dtype=int)
+        order = np.lexsort((self.agent[index], self.diameter[index], self.rate[index], self.trays[index],
+                            self.cost[index]))
+        return index[order]
+
+    def designs(self, index) -> Designs:
+        """The alternatives at ``index``, re-evaluated in full (one call), in the order given."""
+        index = np.asarray(index, dtype=int)
+        return self.flowsheet.evaluate(self.agent[index], self.trays[index], self.rate[index], self.diameter[index])
+
+    def full(self) -> Designs:
+        """Every alternative in full (for small spaces: tests, curves)."""
+        return self.designs(np.arange(len(self)))
+
+    def to_frame(self):
+        """The compact table as pandas: decisions, cost, feasibility, least-rate flag, kept resources."""
+        import pandas as pd
+
+        frame = pd.DataFrame({"agent": np.asarray(self.case.agents, dtype=object)[self.agent], "trays": self.trays,
+                              "rate": self.rate, "ratio": self.ratio, "diameter": self.diameter,
+                              "annualized": self.cost, "feasible": self.feasible, "least": self.least})
+        for name, values in self.usage.items():
+            frame[name] = values
+        return frame
+
+
+def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: int = CHUNK,
+                progress: Callable[[int, int], None] | None = None) -> Space:
+    """Evaluate every alternative of the case (or of the candidates ``agents``).
+
+    ``keep`` names shared-resource figures (from ``RESOURCES``) to keep a
+    column of; ``progress(done, estimate)`` is called after each chunk.
+    """
+    flowsheet = SingleColumn(case)
+    chosen = np.arange(len(case.agents)) if agents is None else np.asarray(agents, dtype=int)
+    estimate = flowsheet.estimate() * chosen.size // max(len(case.agents), 1)
+    parts: dict[str, list[np.ndarray]] = {k: [] for k in ("agent", "trays", "rate", "diameter", "cost",
+                                                          "feasible", "least", *keep)}
+    floors: dict[str, LimitFloor] = {}
+    spec_met = 0
+    done = 0
+    for batch in flowsheet.alternatives(chosen, chunk):
+        base = flowsheet.evaluate(batch.agent, batch.trays, batch.rate)
+        repeat, wider, wide_least = flowsheet.widen(base, batch.least)
+        pieces = [(base, batch.least)]
+        if repeat.size:
+            pieces.append((flowsheet.evaluate(base.agent[repeat], base.trays[repeat], base.rate[repeat], wider),
+                           wide_least))
+        for designs, least in pieces:
+            parts["agent"].append(designs.agent.astype(np.int32))
+            parts["trays"].append(designs.trays.astype(np.int32))
+            parts["rate"].append(designs.rate)
+            parts["diameter"].append(designs.diameter)
+            parts["cost"].append(designs.annualized)
+            parts["feasible"].append(designs.within_limits)
+            parts["least"].append(least)
+            for name in keep:
+                parts[name].append(getattr(designs, name))
+            spec_met += _gather_floors(case, designs, floors)
+            done += len(designs)
+        if progress is not None:
+            progress(done, max(estimate, done))
+    empty = {"agent": np.int32, "trays": np.int32, "feasible": bool, "least": bool}
+    columns = {k: (np.concatenate(v) if v else np.zeros(0, empty.get(k, float))) for k, v in parts.items()}
+    usage = {name: columns.pop(name) for name in keep}
+    return Space(case=case, flowsheet=flowsheet, usage=usage, floors=floors, spec_met=spec_met, agents=chosen,
+                 **columns)
+
+
+def _gather_floors(case: Case, designs: Designs, floors: dict[str, LimitFloor]) -> int:
+    """Update, per limit, the least value among spec-meeting designs; return how many met the spec."""
+    limits = limit_table(case, designs)
+    meets = np.ones(len(designs), bool)
+    for limit in limits:
+        if limit.is_spec:
+            meets &= limit.met
+    for limit in limits:
+        if limit.is_spec or limit.name.startswith("ratio"):
+            continue
+        floor = floors.setdefault(limit.name, LimitFloor(limit.label, limit.unit, limit.bound))
+        if meets.any():
+            floor.least = min(floor.least, float(np.min(limit.values[meets])))
+    return int(meets.sum())

@@ -1,0 +1,1 @@
+"""Output: records (plain data), terminal tables, files."""

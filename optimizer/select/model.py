@@ -1,0 +1,319 @@
+r"""The selection model: one design per unit at the least total annualized cost, under shared limits.
+
+Formulation (Pyomo; solved by HiGHS):
+
+    sets         U                     units (towers) to design
+                 A = {(u, d)}          alternatives d of unit u (discrete designs, exactly evaluated)
+                 R                     shared limits (a site's capital budget, steam or power cap)
+    parameters   cost[u, d]            total annualized cost [USD/yr], from towercost.models
+                 use[r, u, d]          what alternative (u, d) takes of resource r
+                 cap[r]                the bound of shared limit r
+    variables    pick[u, d] in {0, 1}  1 for the design chosen for unit u
+    constraints  one_design[u]:        sum_d pick[u, d] = 1                         for u in U
+                 shared_limit[r]:      sum_(u,d) use[r, u, d] pick[u, d] <= cap[r]  for r in R
+    objective    annualized_cost:      minimize sum_(u,d) cost[u, d] pick[u, d]
+
+What the model carries and what it does not: every limit that is a property
+of one design (outlet specs, flooding, height, diameter, the ratio range, an
+existing shell, and, for a single unit, its budget, power and steam caps) is
+applied in numpy before the model is built (``towercost.design.limits``), so
+every alternative the model sees meets its own unit's limits. The model
+carries only what couples choices: one design per unit and the shared limits.
+With one unit and no shared limit its LP relaxation is integral.
+
+Solving: the Pyomo model is built from plain data (``Unit``, ``SharedLimit``);
+its matrix is read back from the model's constraints and objective and handed
+to HiGHS (highspy) once; the k best distinct choices come from repeated solves
+in the same HiGHS instance, each adding the no-good cut of the previous choice
+(for one unit: that alternative's bound set to 0). The LP relaxation is solved
+first; if it is fractional the binaries are restored and HiGHS solves the MIP
+with both gaps at zero. Shared-limit rows are divided by their bound so that
+small bounds stay above HiGHS's feasibility tolerance.
+
+Ties: after each solve, each unit's pick is replaced by the alternative that
+comes first in the tie order among those of no greater cost and no greater use
+of any shared resource (so the choice stays feasible and no dearer); the
+choice then matches the exhaustive scan's, which sorts by the same key.
+
+Pyomo objects never leave this module; only ``pyomo.core`` is imported (not
+``pyomo.environ``), inside the functions that build the model.
+"""
+
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from towercost.design.limits import SPEC_TOLERANCE
+
+
+@dataclass
+class Unit:
+    """One unit's alternatives as the model sees them: all meet the unit's own limits."""
+
+    name: str
+    cost: np.ndarray                                          # (n,) [USD/yr]
+    rank: np.ndarray                                          # (n,) position in the tie order; lower first
+    usage: dict[str, np.ndarray] = field(default_factory=dict)   # resource -> (n,)
+    label: np.ndarray | None = None                           # (n,) what a caller maps picks back to
+
+    def __len__(self) -> int:
+        return int(self.cost.shape[0])
+
+
+@dataclass(frozen=True)
+class SharedLimit:
+    """A limit over the sum of one resource across units."""
+
+    name: str
+    resource: str
+    bound: float
+    label: str = ""
+
+
+@dataclass
+class Selection:
+    """What the model chose, as plain data: per solution, one alternative index per unit."""
+
+    choices: list[tuple[int, ...]]     # best first; indices into each unit's arrays
+    objective: list[float]             # model objective of each [USD/yr]
+    binaries: int
+    build_seconds: float
+    solve_seconds: float
+    solves: int
+
+
+class Infeasible(Exception):
+    """No choice meets the shared limits (or every alternative is excluded)."""
+
+
+def build_model(units: list[Unit], shared: list[SharedLimit]):
+    """The Pyomo model of the formulation above, from plain data."""
+    from pyomo.core import Binary, ConcreteModel, Constraint, Objective, Param, Set, Var, minimize
+    from pyomo.core.expr.numeric_expr import LinearExpression
+
+    m = ConcreteModel("annualized cost")
+    m.UNITS = Set(initialize=range(len(units)), ordered=True)                     # units to design
+    alternatives = [(u, d) for u, unit in enumerate(units) for d in range(len(unit))]
+    m.ALTERNATIVES = Set(initialize=alternatives, dimen=2, ordered=True)          # (unit, design)
+    m.RESOURCES = Set(initialize=range(len(shared)), ordered=True)                # shared limits
+    m.cost = Param(m.ALTERNATIVES, initialize={(u, d): float(c) for u, unit in enumerate(units)
+                                                for d, c in enumerate(unit.cost)})
+    m.cap = Param(m.RESOURCES, initialize={r: float(s.bound) for r, s in enumerate(shared)})
+    m.use = Param(m.RESOURCES, m.ALTERNATIVES, default=0.0, initialize={
+        (r, u, d): float(v) for r, s in enumerate(shared) for u, unit in enumerate(units)
+        for d, v in enumerate(unit.usage.get(s.resource, ())) if v != 0.0})
+    m.pick = Var(m.ALTERNATIVES, within=Binary)                                    # 1 for the chosen design
+    by_unit = [[m.pick[u, d] for d in range(len(unit))] for u, unit in enumerate(units)]
+
+    def one_design(model, u):                                                      # sum_d pick[u, d] = 1
+        return LinearExpression(linear_coefs=[1.0] * len(by_unit[u]), linear_vars=by_unit[u]) == 1
+
+    def shared_limit(model, r):                                                    # sum use pick <= cap
+        # Divided by |cap|: a small bound would otherwise sit below HiGHS's feasibility tolerance.
+        scale = 1.0 / abs(model.cap[r]) if model.cap[r] != 0 else 1.0
+        terms = [(model.use[r, a] * scale, model.pick[a]) for a in model.ALTERNATIVES if model.use[r, a] != 0.0]
+        return LinearExpression(linear_coefs=[c for c, _ in terms], linear_vars=[v for _, v in terms]) \
+            <= model.cap[r] * scale
+
+    m.one_design = Constraint(m.UNITS, rule=one_design)
+    m.shared_limit = Constraint(m.RESOURCES, rule=shared_limit)
+    m.annualized_cost = Objective(expr=LinearExpression(                          # [USD/yr]
+        linear_coefs=[m.cost[a] for a in m.ALTERNATIVES], linear_vars=[m.pick[a] for a in m.ALTERNATIVES]),
+        sense=minimize)
+    return m
+
+
+def _matrix(m):
+    """The model's linear data read back from its components: costs, column-wise matrix, row bounds."""
+    from pyomo.core import Constraint, Var
+
+    columns = {id(v): j for j, v in enumerate(m.component_data_objects(Var, descend_into=True))}
+    cost = np.zeros(len(columns))
+    objective = m.annualized_cost.expr
+    for coef, var in zip(objective.linear_coefs, objective.linear_vars):
+        cost[columns[id(var)]] += coef
+    rows, cols, vals, lower, upper = [], [], [], [], []
+    for i, con in enumerate(m.component_data_objects(Constraint, active=True, descend_into=True)):
+        body = con.body
+        for coef, var in zip(body.linear_coefs, body.linear_vars):
+            rows.append(i)
+            cols.append(columns[id(var)])
+            vals.append(coef)
+        lower.append(-np.inf if con.lower is None else float(con.lower))
+        upper.append(np.inf if con.upper is None else float(con.upper))
+    return cost, np.array(rows, int), np.array(cols, int), np.array(vals, float), np.array(lower), np.array(upper)
+
+
+class _Solver:
+    """One HiGHS instance holding the model's matrix; what changes between solves lives here, not on the model."""
+
+    def __init__(self, m):
+        import highspy
+
+        self.highspy = highspy
+        cost, rows, cols, vals, lower, upper = _matrix(m)
+        self.n = cost.size
+        order = np.lexsort((rows, cols))
+        rows, cols, vals = rows[order], cols[order], vals[order]
+        lp = highspy.HighsLp()
+        lp.num_col_, lp.num_row_ = self.n, lower.size
+        lp.col_cost_ = cost
+        lp.col_lower_ = np.zeros(self.n)
+        lp.col_upper_ = np.ones(self.n)
+        lp.row_lower_, lp.row_upper_ = lower, upper
+        lp.a_matrix_.format_ = highspy.MatrixFormat.kColwise
+        lp.a_matrix_.start_ = np.searchsorted(cols, np.arange(self.n + 1)).astype(np.int32)
+        lp.a_matrix_.index_ = rows.astype(np.int32)
+        lp.a_matrix_.value_ = vals
+        self.h = highspy.Highs()
+        for option, value in (("output_flag", False), ("threads", 1), ("mip_rel_gap", 0.0), ("mip_abs_gap", 0.0)):
+            self.h.setOptionValue(option, value)
+        self.h.passModel(lp)
+        self.upper = np.ones(self.n)
+        self.is_mip = False
+
+    def set_upper(self, columns, value: float) -> None:
+        columns = np.asarray(columns, dtype=np.int32)
+        if columns.size:
+            self.upper[columns] = value
+            self.h.changeColsBounds(columns.size, columns, np.zeros(columns.size), np.full(columns.size, value))
+
+    def add_no_good(self, columns) -> None:
+        """Forbid choosing all of ``columns`` together again."""
+        columns = np.asarray(columns, dtype=np.int32)
+        self.h.addRow(-np.inf, float(columns.size - 1), columns.size, columns, np.ones(columns.size))
+
+    def solve(self) -> tuple[np.ndarray, float] | None:
+        """Column values and objective of an optimal choice, or None when none exists."""
+        status_type = self.highspy.HighsModelStatus
+        while True:
+            self.h.run()
+            status = self.h.getModelStatus()
+            if status in (status_type.kInfeasible, status_type.kUnboundedOrInfeasible):
+                return None
+            if status != status_type.kOptimal:
+                if not self.is_mip:
+                    self._restore_binaries()
+                    continue
+                raise RuntimeError(f"HiGHS stopped with status {self.h.modelStatusToString(status)}")
+            values = np.asarray(self.h.getSolution().col_value)
+            integral = np.all((values < 1e-9) | (values > 1 - 1e-9))
+            if integral or self.is_mip:
+                return values, float(self.h.getInfo().objective_function_value)
+            self._restore_binaries()
+
+    def _restore_binaries(self) -> None:
+        self.is_mip = True
+        self.h.changeColsIntegrality(self.n, np.arange(self.n, dtype=np.int32),
+                                     np.full(self.n, self.highspy.HighsVarType.kInteger))
+
+
+def _polish(units: list[Unit], offsets: np.ndarray, allowed: np.ndarray, choice: list[int]) -> list[int]:
+    """Each unit's pick replaced by the first in tie order among allowed ones no dearer and using no more."""
+    polished = []
+    for u, (unit, d) in enumerate(zip(units, choice)):
+        mask = allowed[offsets[u]:offsets[u + 1]] & (unit.cost <= unit.cost[d])
+        for values in unit.usage.values():
+            mask &= values <= values[d]
+        candidates = np.flatnonzero(mask)
+        best = candidates[np.lexsort((unit.rank[candidates], unit.cost[candidates]))[0]] if candidates.size else d
+        polished.append(int(best))
+    return polished
+
+
+#: Choices met only within the solver's tolerance that may be cut off before giving up.
+MAX_REJECTED = 100
+
+
+def _within_shared(units: list[Unit], shared, choice: list[int]) -> bool:
+    """The choice meets every shared limit exactly (to the project's spec tolerance)."""
+    for limit in shared:
+        total = sum(float(unit.usage[limit.resource][d]) if limit.resource in unit.usage else 0.0
+                    for unit, d in zip(units, choice))
+        if total > limit.bound * (1 + SPEC_TOLERANCE) + (0.0 if limit.bound else SPEC_TOLERANCE):
+            return False
+    return True
+
+
+class SelectionModel:
+    """The model built once over its units; ``best`` answers one top-k query at a time."""
+
+    def __init__(self, units: list[Unit], shared: list[SharedLimit] = ()):
+        start = time.perf_counter()
+        self.units, self.shared = list(units), list(shared)
+        self.model = build_model(self.units, self.shared)
+        self.solver = _Solver(self.model)
+        self.offsets = np.concatenate([[0], np.cumsum([len(u) for u in self.units])]).astype(int)
+        self.build_seconds = time.perf_counter() - start
+        self.solve_seconds = 0.0
+        self.solves = 0
+
+    @property
+    def binaries(self) -> int:
+        return self.solver.n
+
+    def best(self, top: int = 1, restrict: list[np.ndarray | None] | None = None) -> Selection:
+        """The ``top`` best distinct choices (one alternative per unit), best first.
+
+        ``restrict`` optionally gives, per unit, a boolean mask of the
+        alternatives allowed. Raises ``Infeasible`` when no choice exists.
+        Exclusions and cuts of one query are undone before the next.
+        """
+        start = time.perf_counter()
+        solver, units, offsets = self.solver, self.units, self.offsets
+        first_row = solver.h.getNumRow()
+        if restrict is not None:
+            for u, mask in enumerate(restrict):
+                if mask is not None:
+                    solver.set_upper(offsets[u] + np.flatnonzero(~np.asarray(mask, bool)), 0.0)
+        choices: list[tuple[int, ...]] = []
+        objective: list[float] = []
+        single = len(units) == 1
+        rejected = 0
+        solves = 0
+        try:
+            while len(choices) < top:
+                found = solver.solve()
+                solves += 1
+                if found is None:
+                    break
+                values, _ = found
+                raw = [int(np.argmax(values[offsets[u]:offsets[u + 1]])) for u in range(len(units))]
+                choice = _polish(units, offsets, solver.upper > 0.5, raw)
+                if not single and tuple(choice) in choices:
+                    choice = raw
+                columns = [offsets[u] + d for u, d in enumerate(choice)]
+                if single:
+                    solver.set_upper(columns, 0.0)            # the no-good cut of a one-hot choice
+                else:
+                    solver.add_no_good(columns)
+                if not _within_shared(units, self.shared, choice):
+                    # met a shared limit only within the solver's tolerance: cut off, not reported
+                    rejected += 1
+                    if rejected > MAX_REJECTED:
+                        raise RuntimeError(f"HiGHS returned {rejected} choices that break a shared limit; "
+                                           "the limits may be badly scaled")
+                    continue
+                choices.append(tuple(choice))
+                objective.append(float(sum(units[u].cost[d] for u, d in enumerate(choice))))
+        finally:
+            solver.set_upper(np.arange(solver.n), 1.0)
+            added = solver.h.getNumRow() - first_row
+            if added:
+                solver.h.deleteRows(added, np.arange(first_row, first_row + added, dtype=np.int32))
+        self.solves += solves
+        elapsed = time.perf_counter() - start
+        self.solve_seconds += elapsed
+        if not choices:
+            raise Infeasible("no choice of one design per unit meets the shared limits")
+        return Selection(choices=choices, objective=objective, binaries=solver.n, build_seconds=self.build_seconds,
+                         solve_seconds=elapsed, solves=solves)
+
+
+def solve(units: list[Unit], shared: list[SharedLimit] = (), top: int = 1, *,
+          restrict: list[np.ndarray | None] | None = None) -> Selection:
+    """Build the model over ``units`` and return its ``top`` best distinct choices."""
+    return SelectionModel(units, shared).best(top, restrict)

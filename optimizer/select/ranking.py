@@ -1,0 +1,200 @@
+"""From a scenario to ranked designs: the plain Python API behind the CLI.
+
+``optimize`` builds the space, lets the selection model (or the exhaustive
+scan) pick the best distinct designs, re-evaluates each pick exactly with
+``towercost.models``, and adds the per-candidate best and the near-optimal
+band. ``evaluate_design`` prices one design the user names. ``cost_curve``
+tabulates cost against the ratio and against trays for one candidate.
+"""
+
+from __future__ import annotations
+
+import time
+from collections.abc import Callable
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from towercost.design import cascade
+from towercost.design.case import Case, agent_index, prepare
+from towercost.design.column import SingleColumn
+from towercost.design.designs import Designs
+from towercost.design.cascade import dilute_checks
+from towercost.design.reasons import infeasible_reason
+from towercost.design.space import Space, build_space
+from towercost.errors import InfeasibleSpec
+from towercost.scenario.schema import Scenario
+from towercost.select.scan import first_per_agent, scan
+
+METHODS = ("model", "scan")
+
+
+@dataclass
+class Band:
+    """Designs within ``margin`` of the best annualized cost."""
+
+    margin: float
+    count: int
+    trays: tuple[int, int]
+    ratio: tuple[float, float]
+    agents: list[str]
+
+
+@dataclass
+class Result:
+    """What ``optimize`` hands to the report: exact figures only."""
+
+    case: Case
+    method: str
+    designs: Designs                 # the ranked designs, re-evaluated exactly, best first
+    per_agent: Designs               # best design of each candidate that has one, re-evaluated
+    band: Band
+    unmet: dict[str, str]            # candidate name -> why it has no design
+    warnings: list[str]
+    solver: dict                     # method, sizes, times, objective and its difference from exact
+    space_size: int
+
+    @property
+    def best(self) -> Designs:
+        return self.designs.take(np.array([0]))
+
+    def to_frame(self):
+        """The ranked designs as a pandas table, best first."""
+        frame = self.designs.to_frame(self.case)
+        frame.insert(0, "rank", np.arange(1, len(self.designs) + 1))
+        return frame
+
+
+def near_optimal_band(space: Space, best_cost: float, margin: float) -> Band:
+    """The trays and ratio spanned by designs whose cost is within ``margin`` of the best."""
+    inside = space.feasible & (space.cost <= best_cost + margin * abs(best_cost))
+    ratio = space.ratio[inside]
+    agents = [space.case.agents[a] for a in np.unique(space.agent[inside])]
+    return Band(margin=margin, count=int(inside.sum()),
+                trays=(int(space.trays[inside].min()), int(space.trays[inside].max())),
+                ratio=(float(ratio.min()), float(ratio.max())), agents=agents)
+
+
+def select_by_model(space: Space, top: int) -> tuple[list[int], dict[int, int], dict]:
+    """The model's ``top`` best and each candidate's best, as indices into ``space``, with solver figures.
+
+    Every alternative the model sees meets every limit (a one-unit scenario
+    has only per-design limits); of those it sees the first ``top`` of each
+    candidate in tie order, which hold the top ``top`` overall and every
+    candidate's best, so the reduction is exact.
+    """
+    from towercost.select import model
+
+    feasible = np.flatnonzero(space.feasible)
+    if feasible.size == 0:
+        raise InfeasibleSpec(infeasible_reason(space))
+    kept = space.tie_order(np.concatenate(list(first_per_agent(space, feasible, top).values())))
+    unit = model.Unit("column", cost=space.cost[kept], rank=np.arange(kept.size), label=kept)
+    selection = model.SelectionModel([unit])
+    order = [int(kept[c[0]]) for c in selection.best(top).choices]
+    best_of = {}
+    agent_of = space.agent[kept]
+    for a in np.unique(agent_of):
+        best_of[int(a)] = int(kept[selection.best(1, restrict=[agent_of == a]).choices[0][0]])
+    figures = {"binaries": selection.binaries, "build_seconds": selection.build_seconds,
+               "solve_seconds": selection.solve_seconds, "solves": selection.solves,
+               "solver": "HiGHS (highspy) on the Pyomo model's matrix, MIP gaps 0"}
+    return order, best_of, figures
+
+
+def optimize(scenario: Scenario, *, top: int = 10, method: str = "model",
+             progress: Callable[[int, int], None] | None = None) -> Result:
+    """Rank the ``top`` best distinct designs of the scenario by total annualized cost.
+
+    ``method`` is "model" (Pyomo, solved by HiGHS) or "scan" (every
+    alternative evaluated and sorted). Raises InfeasibleSpec when no design
+    meets the spec within the limits.
+    """
+    if method not in METHODS:
+        raise ValueError(f"method must be 'model' or 'scan', got {method!r}")
+    if top < 1:
+        raise ValueError(f"top must be at least 1, got {top}")
+    t0 = time.perf_counter()
+    case = prepare(scenario)
+    space = build_space(case, progress=progress)
+    t1 = time.perf_counter()
+    solver: dict = {"method": method, "alternatives_evaluated": len(space), "evaluate_seconds": t1 - t0}
+    if method == "model":
+        order, best_of, figures = select_by_model(space, top)
+        solver.update(figures)
+    else:
+        order, best_of = scan(space, top)
+    ranked = space.designs(order)
+    exact = ranked.annualized
+    objective = space.cost[order]
+    solver["objective"] = float(objective[0])
+    solver["exact"] = float(exact[0])
+    solver["difference"] = float(np.max(np.abs(objective - exact)))
+    agents_with = sorted(best_of)
+    per_agent = space.designs([best_of[a] for a in agents_with])
+    unmet = {}
+    for a, name in enumerate(case.agents):
+        if a not in best_of:
+            unmet[name] = infeasible_reason(build_space(case, agents=[a]))
+    warnings = list(dict.fromkeys(ranked.warnings + dilute_checks(case, ranked.take(np.array([0])))))
+    solver["total_seconds"] = time.perf_counter() - t0
+    return Result(case=case, method=method, designs=ranked, per_agent=per_agent,
+                  band=near_optimal_band(space, float(exact[0]), case.margin), unmet=unmet,
+                  warnings=warnings, solver=solver, space_size=len(space))
+
+
+def evaluate_design(scenario: Scenario, agent: str, trays: int, *, ratio: float | None = None,
+                    rate: float | None = None, diameter: float | None = None) -> tuple[Case, Designs, list[str]]:
+    """Evaluate one design the user names: candidate, real trays, a ratio to the minimum or a rate [mol/s].
+
+    The design is priced whether or not it meets the spec; ``meets_spec``
+    and the outlets say which. ``diameter`` [m] gives the shell; without it,
+    the least standard size (or the scenario's existing shell).
+    """
+    case = prepare(scenario)
+    a = agent_index(case, agent)
+    if (ratio is None) == (rate is None):
+        raise ValueError("give exactly one of ratio and rate")
+    if rate is None:
+        rate_min = float(cascade.minimum_rate(case, np.array([a]))[0])
+        if not np.isfinite(rate_min):
+            raise InfeasibleSpec(infeasible_reason(build_space(case, agents=[a])))
+        rate = ratio * rate_min
+    d = SingleColumn(case).evaluate(np.array([a]), np.array([trays]), np.array([rate]),
+                                    None if diameter is None else np.array([diameter]))
+    return case, d, list(dict.fromkeys(d.warnings + dilute_checks(case, d)))
+
+
+@dataclass
+class Curve:
+    """Annualized cost of one candidate against trays and against the ratio to the minimum."""
+
+    case: Case = field(repr=False)
+    agent: str
+    by_trays: Designs = field(repr=False)     # for each tray count, its best design
+    by_ratio: Designs = field(repr=False)     # for each ratio level, the best design at that rate
+
+
+def _cheapest_per(labels: np.ndarray, order: np.ndarray) -> np.ndarray:
+    """For each distinct label, the first of ``order`` (indices in tie order) carrying it, in label order."""
+    _, first = np.unique(labels[order], return_index=True)
+    return order[first]
+
+
+def cost_curve(scenario: Scenario, agent: str) -> Curve:
+    """Cost against trays (best rate at each) and against the ratio (best trays at each level)."""
+    case = prepare(scenario)
+    a = agent_index(case, agent)
+    space = build_space(case, agents=[a])
+    feasible = np.flatnonzero(space.feasible)
+    if feasible.size == 0:
+        raise InfeasibleSpec(infeasible_reason(space))
+    order = space.tie_order(feasible)
+    # the grid levels: every alternative that is not a least-rate point sits on one of them
+    levels = space.flowsheet.rate_grid()
+    ratio = space.ratio
+    level = np.clip(np.searchsorted(levels, ratio * (1 - 1e-9)), 0, levels.size - 1)
+    on_grid = ~space.least & np.isclose(ratio, levels[level], rtol=1e-9)
+    by_trays = _cheapest_per(space.trays, order)
+    by_ratio = _cheapest_per(level, order[on_grid[order]])
+    return Curve(case=case, agent=agent, by_trays=space.designs(by_trays), by_ratio=space.designs(by_ratio))
