@@ -76,6 +76,34 @@ def load_cost_table() -> dict:
     return copy.deepcopy(_cost_table())
 
 
+class Correlation(NamedTuple):
+    """What a cost-table row prices and where it comes from (read-only)."""
+
+    item: str
+    description: str
+    size: str
+    size_unit: str
+    valid: tuple[float, float]
+    index_basis: float
+    source: str
+
+
+@functools.lru_cache(maxsize=None)
+def correlation(item: str) -> Correlation:
+    """The description of one cost-table row, parsed once.
+
+    Examples
+    --------
+    >>> c = correlation("vessel_vertical")
+    >>> c.size, c.size_unit, c.valid, c.index_basis
+    ('volume', 'm3', (0.3, 520.0), 397.0)
+    """
+    row = _item(item)
+    return Correlation(item, str(row.get("description", "")), str(row["size"]), str(row["size_unit"]),
+                       (float(row["valid"][0]), float(row["valid"][1])), float(row["index_basis"]),
+                       str(row["source"]))
+
+
 @functools.lru_cache(maxsize=1)
 def _index_table() -> tuple[np.ndarray, np.ndarray]:
     with _INDEX_TABLE.open(newline="") as handle:
@@ -207,8 +235,11 @@ def purchased_cost(item: str, size, *, warnings: list[str] | None = None):
     check_range(row["size"], area, low, high, row["size_unit"], f"{item} purchased cost (Turton Table A.1)", warnings)
     inside = np.clip(area, low, high)
     log_size = np.log10(inside)
-    fitted = 10.0 ** (row["k1"] + row["k2"] * log_size + row["k3"] * log_size**2)
-    return fitted * (area / inside) ** SIX_TENTHS
+    cost = 10.0 ** (row["k1"] + row["k2"] * log_size + row["k3"] * log_size**2)
+    beyond = area != inside
+    if np.any(beyond):
+        cost = np.where(beyond, cost * (area / inside) ** SIX_TENTHS, cost)
+    return cost
 
 
 def size_in_range(item: str, size):
@@ -449,6 +480,7 @@ def bare_module_cost(
     pressure_gauge=0.0,
     diameter=None,
     trays=None,
+    purchased=None,
     warnings: list[str] | None = None,
 ):
     r"""Bare-module cost (direct plus indirect) of one item at its basis index.
@@ -475,6 +507,9 @@ def bare_module_cost(
         Vessel diameter [m]; required for vessels.
     trays : array_like, optional
         Number of trays N [-]; required for trays.
+    purchased : array_like, optional
+        Cp0 of one piece [USD] from :func:`purchased_cost` at ``size``, when
+        the caller has it already (saves evaluating the fit again).
     warnings : list of str, optional
         Receives out-of-range messages.
 
@@ -499,7 +534,7 @@ def bare_module_cost(
     """
     row = _item(item)
     form = row["bare_module_form"]
-    base = purchased_cost(item, size, warnings=warnings)
+    base = purchased_cost(item, size, warnings=warnings) if purchased is None else np.asarray(purchased, dtype=float)
     factor_m = material_factor(item, material)
     if form == "b1_b2":
         if row.get("pressure_model") == "vessel":

@@ -21,16 +21,20 @@ function is called.
 
 from __future__ import annotations
 
-from importlib import metadata as _metadata
-
-try:
-    __version__ = _metadata.version("towercost")
-except _metadata.PackageNotFoundError:  # running from a checkout without installing
-    __version__ = "0+unknown"
-
 __all__ = ["load", "from_dict", "optimize", "evaluate", "curve", "ScenarioError", "InfeasibleSpec", "__version__"]
 
 from towercost.errors import InfeasibleSpec, ScenarioError  # noqa: E402 - light module
+
+
+def __getattr__(name: str):
+    if name == "__version__":  # read from the installed metadata only when asked (it costs an import)
+        from importlib import metadata
+
+        try:
+            return metadata.version("towercost")
+        except metadata.PackageNotFoundError:  # running from a checkout without installing
+            return "0+unknown"
+    raise AttributeError(f"module 'towercost' has no attribute {name!r}")
 
 
 def load(path):

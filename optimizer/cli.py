@@ -261,7 +261,7 @@ def optimize(
 
     data = _load(scenario)
     result = _run(lambda: ranking.optimize(data, top=top, method=method.value, progress=_progress()), out)
-    record = records.result_record(result)
+    record = records.result_record(result) if (as_json or save) else None
     written = []
     stem = scenario.stem
     if csv:

@@ -24,7 +24,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterator
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
 
 import numpy as np
 
@@ -50,7 +50,23 @@ BLOWER = ItemSpec("blower", "K-101", "gas blower", "blower_centrifugal")
 SAME_RATE = 1e-9
 
 #: Alternatives evaluated per call when the space is enumerated in chunks.
-CHUNK = 1 << 17
+CHUNK = 1 << 16
+
+
+@dataclass(frozen=True)
+class Separation:
+    """Design points separated but not yet sized: decisions, cascade figures and column loads."""
+
+    agent: np.ndarray
+    trays: np.ndarray        # real trays (float)
+    rate: np.ndarray
+    figures: dict[str, np.ndarray]
+    loads: Loads
+
+    def take(self, index) -> "Separation":
+        return Separation(self.agent[index], self.trays[index], self.rate[index],
+                          {k: v[index] for k, v in self.figures.items()},
+                          Loads(*(getattr(self.loads, f.name)[index] for f in fields(Loads))))
 
 
 @dataclass(frozen=True)
@@ -71,6 +87,8 @@ class SingleColumn:
         self.case = case
         self.service = case.service
         self.internals = Trays(case.tray, case.tray_spacing, case.flood_fraction, case.material)
+        #: least rate of each agent with unlimited stages [mol/s]: a property of the agent alone
+        self.rate_min = cascade.minimum_rate(case, np.arange(len(case.agents)))
 
     # ----------------------------------------------------------------- enumeration
 
@@ -101,7 +119,7 @@ class SingleColumn:
         """The design space in batches of about ``chunk`` alternatives."""
         case = self.case
         grid_agent, grid_trays = self.groups(agents)
-        rate_min = cascade.minimum_rate(case, grid_agent)
+        rate_min = self.rate_min[grid_agent]
         lo, hi = case.ratio_range
         least = np.maximum(cascade.least_rate(case, grid_agent, grid_trays), lo * rate_min)
         levels = self.rate_grid()
@@ -120,15 +138,13 @@ class SingleColumn:
             is_least = np.concatenate([np.ones(g.size, bool), np.zeros(g_idx.size, bool)])
             yield Chunk(grid_agent[group], grid_trays[group], rate, np.full(rate.shape, np.nan), is_least)
 
-    def widen(self, base: Designs, least: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-        """The larger standard diameters offered for each base design: (repeat index, diameters, least flags)."""
+    def wider(self, base: Designs) -> list[np.ndarray]:
+        """The larger standard diameters offered beside each base design, one array per size step."""
         case = self.case
         if case.shell_diameter is not None or case.larger_diameters == 0:
-            return np.zeros(0, int), np.zeros(0), np.zeros(0, bool)
+            return []
         steps = np.arange(1, case.larger_diameters + 1)
-        wider = self.internals.larger(base.diameter, steps).ravel()
-        repeat = np.repeat(np.arange(len(base)), steps.size)
-        return repeat, wider, least[repeat]
+        return list(self.internals.larger(base.diameter, steps).T)
 
     # ----------------------------------------------------------------- evaluation
 
@@ -139,24 +155,38 @@ class SingleColumn:
         the shell diameter [m] (NaN or None: the least standard size the
         flooding limit allows, or the scenario's existing shell).
         """
-        case, service = self.case, self.service
+        case = self.case
         if diameter is None:
             diameter = np.nan if case.shell_diameter is None else case.shell_diameter
         agent, trays, rate, diameter = (a.ravel() for a in np.broadcast_arrays(
             np.asarray(agent, dtype=int), np.asarray(trays, dtype=float), np.asarray(rate, dtype=float),
             np.asarray(diameter, dtype=float)))
-        notes: list[str] = list(case.notes)
+        return self.price(self.separate(agent, trays, rate), diameter)
 
+    def separate(self, agent, trays, rate) -> Separation:
+        """What a design's diameter does not change: the cascade, the flows and the column loads."""
+        case, service = self.case, self.service
         out, agent_out, factor, stages = cascade.outlet(case, agent, trays, rate)
-        meets = cascade.meets_spec(case, out)
-        rate_min = cascade.minimum_rate(case, agent)
+        rate_min = self.rate_min[agent]
         with np.errstate(divide="ignore", invalid="ignore"):
             ratio = np.where(rate_min > 0, rate / rate_min, np.inf)
         liquid, gas = service.flows(rate, case.feed_flow)
         liquid_mass = liquid * case.liquid_molar_mass[agent]
         gas_mass = gas * case.gas_molar_mass[agent]
-        rho_l = case.liquid_density[agent]
-        loads = Loads(gas_mass, liquid_mass, case.gas_density[agent], rho_l, case.surface_tension[agent])
+        loads = Loads(gas_mass, liquid_mass, case.gas_density[agent], case.liquid_density[agent],
+                      case.surface_tension[agent])
+        figures = dict(rate_min=rate_min, ratio=ratio, factor=factor, stages=stages, outlet=out,
+                       agent_outlet=agent_out, meets_spec=cascade.meets_spec(case, out), liquid_flow=liquid,
+                       gas_flow=gas, liquid_mass_flow=liquid_mass, gas_mass_flow=gas_mass)
+        return Separation(agent, trays, rate, figures, loads)
+
+    def price(self, separation: Separation, diameter) -> Designs:
+        """Size, price and check the separated design points at shell ``diameter`` [m] (NaN: the least size)."""
+        case, service = self.case, self.service
+        agent, trays, rate = separation.agent, separation.trays, separation.rate
+        loads = separation.loads
+        liquid_mass, gas_mass, rho_l = loads.liquid_mass_flow, loads.gas_mass_flow, loads.liquid_density
+        notes: list[str] = list(case.notes)
         size = self.internals.size(loads, trays, diameter, warnings=notes)
         diameter, height = size.diameter, size.height
 
@@ -205,7 +235,7 @@ class SingleColumn:
         rows = [(ELECTRICITY, electric, eco.electricity), (AGENT, purge, case.price[agent]),
                 (DISPOSAL, purge, case.disposal[agent]), (STEAM, steam_rate, eco.steam),
                 (COOLING, cooling_rate, eco.cooling_water)]
-        removed = case.feed_in - out  # per mol of treated stream
+        removed = case.feed_in - separation.figures["outlet"]  # per mol of treated stream
         for s, solute in enumerate(case.solutes):
             if case.credit[s] > 0:
                 rows.append((credit_spec(solute), np.where(regen, case.feed_flow * removed[:, s], 0.0),
@@ -214,9 +244,7 @@ class SingleColumn:
         annual = annualize(equipment, uses, eco)
 
         figures = dict(
-            rate_min=rate_min, ratio=ratio, factor=factor, stages=stages, outlet=out, agent_outlet=agent_out,
-            meets_spec=meets, liquid_flow=liquid, gas_flow=gas, liquid_mass_flow=liquid_mass,
-            gas_mass_flow=gas_mass, flow_parameter=size.flow_parameter, flooding_velocity=size.flooding_velocity,
+            **separation.figures, flow_parameter=size.flow_parameter, flooding_velocity=size.flooding_velocity,
             diameter_required=size.diameter_required, fraction_of_flood=size.fraction_of_flood_at_standard_diameter,
             height=height, pressure_drop_per_tray=size.pressure_drop_per_tray, pressure_drop=size.pressure_drop,
             design_pressure=np.broadcast_to(p_design, rate.shape).astype(float),
@@ -227,8 +255,8 @@ class SingleColumn:
             electric_power=electric, steam_rate=steam_rate, cooling_rate=cooling_rate, makeup_rate=purge,
             bare_module=annual.bare_module, total_module=annual.total_module, installed=annual.installed,
             operating=annual.operating, credit=annual.credit, capital_charge=annual.capital_charge,
-            annualized=annual.annualized, purchased=annual.purchased, bare_module_items=annual.bare_module_items,
-            use_cost=annual.use_cost,
+            annualized=annual.annualized, use_cost=annual.use_cost,
+            escalation=np.broadcast_to(annual.escalation, rate.shape + annual.escalation.shape[-1:]),
         )
         designs = Designs(agent, trays.astype(int), rate, diameter, figures, equipment, uses, notes)
         designs.figures["within_limits"] = limits_met(limit_table(case, designs), len(designs))

@@ -22,7 +22,7 @@ Adding an item: one row in ``models/data/equipment_cost.toml``, one
 
 from __future__ import annotations
 
-from dataclasses import dataclass, fields
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -42,24 +42,20 @@ class ItemSpec:
     correlation: str    # row of models/data/equipment_cost.toml that prices it
 
     @property
-    def _row(self) -> dict:
-        return costing.load_cost_table()[self.correlation]
-
-    @property
     def size_basis(self) -> str:
-        return str(self._row["size"])
+        return costing.correlation(self.correlation).size
 
     @property
     def size_unit(self) -> str:
-        return str(self._row["size_unit"])
+        return costing.correlation(self.correlation).size_unit
 
     @property
     def source(self) -> str:
-        return str(self._row["source"])
+        return costing.correlation(self.correlation).source
 
     @property
     def basis(self) -> float:
-        return costing.cost_basis(self.correlation)
+        return costing.correlation(self.correlation).index_basis
 
 
 @dataclass
@@ -84,57 +80,78 @@ def price_item(spec: ItemSpec, size, *, material: str = "carbon_steel", pressure
     rise for a blower); ``diameter`` [m] is needed by vessels.
     """
     size = np.asarray(size, dtype=float)
-    purchased = costing.purchased_cost(spec.correlation, size, warnings=warnings)
-    if count is not None:
-        purchased = purchased * count
+    one = costing.purchased_cost(spec.correlation, size, warnings=warnings)
     bare = costing.bare_module_cost(spec.correlation, size, material=material, pressure_gauge=pressure_gauge,
-                                    diameter=diameter, trays=count)
-    base = costing.bare_module_cost(spec.correlation, size, diameter=diameter, trays=count)
+                                    diameter=diameter, trays=count, purchased=one)
+    base = costing.bare_module_cost(spec.correlation, size, diameter=diameter, trays=count, purchased=one)
+    purchased = one if count is None else one * count
     return ItemCost(spec, size, purchased, bare, base, costing.size_in_range(spec.correlation, size), material)
 
 
-@dataclass
+def _table(rows, attr: str, dtype=float) -> np.ndarray:
+    """The rows' ``attr`` arrays side by side: shape (n, rows)."""
+    n = np.broadcast_shapes(*(np.shape(getattr(r, attr)) for r in rows))
+    table = np.empty(n + (len(rows),), dtype=dtype)
+    for j, row in enumerate(rows):
+        table[..., j] = getattr(row, attr)
+    return table
+
+
 class Equipment:
-    """Equipment rows over design points: arrays of shape (n, items), at each row's own cost basis [USD]."""
+    """Equipment rows over design points, each at its own cost basis [USD].
 
-    specs: tuple[ItemSpec, ...]
-    materials: tuple[str, ...]
-    size: np.ndarray
-    purchased: np.ndarray
-    bare_module: np.ndarray
-    bare_module_base: np.ndarray
-    in_range: np.ndarray
-    basis: np.ndarray             # (items,) cost index of each row's correlation
+    Kept as the list of priced rows; the (n, items) tables (``size``,
+    ``purchased``, ``bare_module``, ``bare_module_base``, ``in_range``) are
+    laid out when first asked for.
+    """
 
-    @classmethod
-    def stack(cls, items: list[ItemCost]) -> "Equipment":
-        n = np.broadcast_shapes(*(np.shape(i.bare_module) for i in items))
+    def __init__(self, items: list[ItemCost]):
+        self.items = list(items)
+        self.specs = tuple(i.spec for i in self.items)
+        self.materials = tuple(i.material for i in self.items)
+        self.basis = np.array([spec.basis for spec in self.specs])   # (items,) cost index of each correlation
+        self._tables: dict[str, np.ndarray] = {}
 
-        def column(attr):
-            return np.stack([np.broadcast_to(getattr(i, attr), n) for i in items], axis=-1).astype(
-                bool if attr == "in_range" else float)
+    stack = classmethod(lambda cls, items: cls(items))
 
-        return cls(tuple(i.spec for i in items), tuple(i.material for i in items), column("size"),
-                   column("purchased"), column("bare_module"), column("bare_module_base"), column("in_range"),
-                   np.array([i.spec.basis for i in items]))
+    def _get(self, attr: str) -> np.ndarray:
+        if attr not in self._tables:
+            self._tables[attr] = _table(self.items, attr, bool if attr == "in_range" else float)
+        return self._tables[attr]
+
+    size = property(lambda self: self._get("size"))
+    purchased = property(lambda self: self._get("purchased"))
+    bare_module = property(lambda self: self._get("bare_module"))
+    bare_module_base = property(lambda self: self._get("bare_module_base"))
+    in_range = property(lambda self: self._get("in_range"))
 
     def take(self, index) -> "Equipment":
-        return Equipment(self.specs, self.materials, self.size[index], self.purchased[index],
-                         self.bare_module[index], self.bare_module_base[index], self.in_range[index], self.basis)
+        return Equipment([ItemCost(i.spec, *(np.broadcast_to(getattr(i, a), np.shape(i.bare_module))[index]
+                                             for a in ("size", "purchased", "bare_module", "bare_module_base",
+                                                       "in_range")), i.material) for i in self.items])
 
     @classmethod
     def concatenate(cls, parts: list["Equipment"]) -> "Equipment":
-        first = parts[0]
-        return cls(first.specs, first.materials,
-                   *(np.concatenate([getattr(p, f.name) for p in parts])
-                     for f in fields(cls) if f.name in ("size", "purchased", "bare_module", "bare_module_base",
-                                                        "in_range")),
-                   first.basis)
+        rows = []
+        for j, item in enumerate(parts[0].items):
+            pieces = [p.items[j] for p in parts]
+            rows.append(ItemCost(item.spec, *(np.concatenate([np.broadcast_to(getattr(q, a), np.shape(q.bare_module))
+                                                              for q in pieces])
+                                              for a in ("size", "purchased", "bare_module", "bare_module_base",
+                                                        "in_range")), item.material))
+        return cls(rows)
 
-    def escalated(self, table: np.ndarray, index_to) -> np.ndarray:
-        """An (n, items) cost table moved from each row's basis to ``index_to`` (broadcast: (S,) gives (S, n, items))."""
-        target = np.asarray(index_to, dtype=float)[..., None, None]
-        return costing.escalate(table, self.basis, target)
+    def escalation(self, index_to) -> np.ndarray:
+        """Each row's factor from its own basis to ``index_to``: (items,), or (S, items) for sampled indices."""
+        return costing.escalate(1.0, self.basis, np.asarray(index_to, dtype=float)[..., None])
+
+    def escalated_sum(self, attr: str, index_to) -> np.ndarray:
+        """Sum over rows of ``attr`` escalated to ``index_to``: (n,), or (S, n) for sampled indices."""
+        factor = self.escalation(index_to)
+        total = 0.0
+        for j, item in enumerate(self.items):
+            total = total + getattr(item, attr) * factor[..., j:j + 1]
+        return total
 
 
 # --------------------------------------------------------------------------- consumptions
@@ -163,27 +180,44 @@ def credit_spec(solute: str) -> UseSpec:
 
 
 @dataclass
-class Uses:
-    """Consumption rows over design points: rate and unit price, each (n, uses)."""
+class UseRow:
+    """One consumption row over design points."""
 
-    specs: tuple[UseSpec, ...]
-    rate: np.ndarray
-    unit_price: np.ndarray
+    spec: UseSpec
+    rate: np.ndarray          # in spec.rate_unit
+    unit_price: np.ndarray    # in spec.price_unit
+
+
+class Uses:
+    """Consumption rows over design points; ``rate`` and ``unit_price`` as (n, uses) tables on demand."""
+
+    def __init__(self, rows: list[UseRow]):
+        self.rows = list(rows)
+        self.specs = tuple(r.spec for r in self.rows)
+        self._tables: dict[str, np.ndarray] = {}
 
     @classmethod
     def stack(cls, rows: list[tuple[UseSpec, np.ndarray, np.ndarray]]) -> "Uses":
-        n = np.broadcast_shapes(*(np.shape(r) for _, r, _ in rows), *(np.shape(p) for _, _, p in rows))
-        return cls(tuple(s for s, _, _ in rows),
-                   np.stack([np.broadcast_to(np.asarray(r, dtype=float), n) for _, r, _ in rows], axis=-1),
-                   np.stack([np.broadcast_to(np.asarray(p, dtype=float), n) for _, _, p in rows], axis=-1))
+        n = np.broadcast_shapes(*(np.shape(r) for _, r, _ in rows))
+        return cls([UseRow(spec, np.broadcast_to(np.asarray(r, dtype=float), n),
+                           np.broadcast_to(np.asarray(p, dtype=float), n)) for spec, r, p in rows])
+
+    def _get(self, attr: str) -> np.ndarray:
+        if attr not in self._tables:
+            self._tables[attr] = _table(self.rows, attr)
+        return self._tables[attr]
+
+    rate = property(lambda self: self._get("rate"))
+    unit_price = property(lambda self: self._get("unit_price"))
 
     def take(self, index) -> "Uses":
-        return Uses(self.specs, self.rate[index], self.unit_price[index])
+        return Uses([UseRow(r.spec, r.rate[index], r.unit_price[index]) for r in self.rows])
 
     @classmethod
     def concatenate(cls, parts: list["Uses"]) -> "Uses":
-        return cls(parts[0].specs, np.concatenate([p.rate for p in parts]),
-                   np.concatenate([p.unit_price for p in parts]))
+        return cls([UseRow(row.spec, np.concatenate([p.rows[j].rate for p in parts]),
+                           np.concatenate([p.rows[j].unit_price for p in parts]))
+                    for j, row in enumerate(parts[0].rows)])
 
     def column(self, key: str) -> int:
         return [s.key for s in self.specs].index(key)
@@ -196,9 +230,8 @@ class Uses:
 class Annual:
     """Capital and yearly figures of design points; (n,) or, with sampled inputs, (S, n)."""
 
-    purchased: np.ndarray         # (..., n, items) [USD] at the estimate's index
-    bare_module_items: np.ndarray  # (..., n, items) [USD] at the estimate's index
-    bare_module: np.ndarray       # [USD] sum over items
+    escalation: np.ndarray        # (..., items) factor from each row's basis to the estimate's index
+    bare_module: np.ndarray       # [USD] sum over items, at the estimate's index
     total_module: np.ndarray      # [USD] with contingency and fee
     installed: np.ndarray         # [USD] grassroots, with auxiliary facilities
     use_cost: np.ndarray          # (..., n, uses) [USD/yr], credits positive
@@ -241,29 +274,31 @@ def annualize(equipment: Equipment, uses: Uses, eco, unit_price=None) -> Annual:
     Annual
         Arrays of shape (n,), or (S, n) where any input carries samples.
     """
-    purchased = equipment.escalated(equipment.purchased, eco.index_to)
-    bare_items = equipment.escalated(equipment.bare_module, eco.index_to)
-    bare = bare_items.sum(axis=-1)
-    base = equipment.escalated(equipment.bare_module_base, eco.index_to).sum(axis=-1)
+    bare = equipment.escalated_sum("bare_module", eco.index_to)
+    base = equipment.escalated_sum("bare_module_base", eco.index_to)
     capital = costing.installed_cost(bare, contingency=_sample(eco.contingency), fee=_sample(eco.fee),
                                      auxiliary=_sample(eco.auxiliary), bare_module_base=base)
-    price = uses.unit_price if unit_price is None else np.asarray(unit_price, dtype=float)
-    hours = np.asarray(eco.hours, dtype=float)[..., None, None]
-    rate = uses.rate
+    hours = _sample(eco.hours)
+    price = None if unit_price is None else np.asarray(unit_price, dtype=float)
     columns = []
-    for c, spec in enumerate(uses.specs):
-        if spec.key == ELECTRICITY.key:  # priced per kWh by its own relation
-            columns.append(economics.electricity_cost(rate[..., c], price[..., c] * 3.6e6, hours[..., 0]))
+    for c, row in enumerate(uses.rows):
+        p = row.unit_price if price is None else price[..., c]
+        if row.spec.key == ELECTRICITY.key:  # priced per kWh by its own relation
+            columns.append(economics.electricity_cost(row.rate, p * 3.6e6, hours))
         else:
-            columns.append(economics.annual_utility_cost(rate[..., c], price[..., c], hours[..., 0]))
+            columns.append(economics.annual_utility_cost(row.rate, p, hours))
     shape = np.broadcast_shapes(*(np.shape(col) for col in columns))
-    use_cost = np.stack([np.broadcast_to(col, shape) for col in columns], axis=-1)
-    is_credit = np.array([s.credit for s in uses.specs])
-    operating = use_cost[..., ~is_credit].sum(axis=-1)
-    credit = use_cost[..., is_credit].sum(axis=-1)
+    use_cost = np.empty(shape + (len(columns),))
+    operating, credit = np.zeros(shape), np.zeros(shape)
+    for c, (row, col) in enumerate(zip(uses.rows, columns)):
+        use_cost[..., c] = col
+        if row.spec.credit:
+            credit = credit + col
+        else:
+            operating = operating + col
     recovery = _sample(eco.capital_recovery)
     installed = capital.grassroots
     annualized = economics.annualized_cost(installed, recovery, operating, credit)
-    return Annual(purchased=purchased, bare_module_items=bare_items, bare_module=bare,
+    return Annual(escalation=equipment.escalation(eco.index_to), bare_module=bare,
                   total_module=capital.total_module, installed=installed, use_cost=use_cost, operating=operating,
                   credit=credit, capital_charge=recovery * installed, annualized=annualized)

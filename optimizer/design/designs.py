@@ -62,9 +62,14 @@ FIGURES: dict[str, tuple[str, str]] = {
     "credit": ("USD/yr", "credit for recovered solute"),
     "capital_charge": ("USD/yr", "capital recovery x installed cost"),
     "annualized": ("USD/yr", "total annualized cost"),
+    "use_cost": ("USD/yr", "yearly cost (or credit) per consumption row"),
+    "escalation": ("-", "cost-index factor of each equipment item, from its basis to the estimate's index"),
+}
+
+#: Figures derived on demand from the equipment rows: name -> (unit, meaning).
+DERIVED = {
     "purchased": ("USD", "purchased cost per equipment item, at the estimate's index"),
     "bare_module_items": ("USD", "bare-module cost per equipment item, at the estimate's index"),
-    "use_cost": ("USD/yr", "yearly cost (or credit) per consumption row"),
 }
 
 DECISIONS = ("agent", "trays", "rate", "diameter")
@@ -88,6 +93,16 @@ class Designs:
         if figures is not None and name in figures:
             return figures[name]
         raise AttributeError(name)
+
+    @property
+    def purchased(self) -> np.ndarray:
+        """(n, items) purchased cost of each equipment row at the estimate's index [USD]."""
+        return self.equipment.purchased * self.figures["escalation"]
+
+    @property
+    def bare_module_items(self) -> np.ndarray:
+        """(n, items) bare-module cost of each equipment row at the estimate's index [USD]."""
+        return self.equipment.bare_module * self.figures["escalation"]
 
     def __len__(self) -> int:
         return int(self.agent.shape[0])
@@ -124,11 +139,12 @@ class Designs:
         for name in ("trays", "rate", "diameter"):
             columns[name] = getattr(self, name)
         solutes = list(case.solutes) if case is not None else None
-        for name, values in self.figures.items():
+        figures = {**self.figures, "purchased": self.purchased, "bare_module_items": self.bare_module_items}
+        for name, values in figures.items():
             if values.ndim == 1:
                 columns[name] = values
                 continue
-            if name in ("purchased", "bare_module_items"):
+            if name in ("purchased", "bare_module_items", "escalation"):
                 labels = [s.tag for s in self.equipment.specs]
             elif name == "use_cost":
                 labels = [s.key for s in self.uses.specs]

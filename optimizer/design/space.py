@@ -122,12 +122,12 @@ def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: i
     spec_met = 0
     done = 0
     for batch in flowsheet.alternatives(chosen, chunk):
-        base = flowsheet.evaluate(batch.agent, batch.trays, batch.rate)
-        repeat, wider, wide_least = flowsheet.widen(base, batch.least)
+        separated = flowsheet.separate(batch.agent, batch.trays.astype(float), batch.rate)
+        diameter = np.full(batch.rate.shape, np.nan if case.shell_diameter is None else case.shell_diameter)
+        base = flowsheet.price(separated, diameter)
         pieces = [(base, batch.least)]
-        if repeat.size:
-            pieces.append((flowsheet.evaluate(base.agent[repeat], base.trays[repeat], base.rate[repeat], wider),
-                           wide_least))
+        for wider in flowsheet.wider(base):   # the same separation in a larger shell: only sizing and cost change
+            pieces.append((flowsheet.price(separated, wider), batch.least))
         for designs, least in pieces:
             parts["agent"].append(designs.agent.astype(np.int32))
             parts["trays"].append(designs.trays.astype(np.int32))

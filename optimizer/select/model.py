@@ -147,6 +147,22 @@ def _matrix(m):
     return cost, np.array(rows, int), np.array(cols, int), np.array(vals, float), np.array(lower), np.array(upper)
 
 
+def _quiet(make):
+    """Call ``make()`` with the process's standard output closed: HiGHS prints a banner as it is created."""
+    import os
+    import sys
+
+    sys.stdout.flush()
+    saved = os.dup(1)
+    try:
+        with open(os.devnull, "w") as null:
+            os.dup2(null.fileno(), 1)
+            return make()
+    finally:
+        os.dup2(saved, 1)
+        os.close(saved)
+
+
 class _Solver:
     """One HiGHS instance holding the model's matrix; what changes between solves lives here, not on the model."""
 
@@ -168,7 +184,7 @@ class _Solver:
         lp.a_matrix_.start_ = np.searchsorted(cols, np.arange(self.n + 1)).astype(np.int32)
         lp.a_matrix_.index_ = rows.astype(np.int32)
         lp.a_matrix_.value_ = vals
-        self.h = highspy.Highs()
+        self.h = _quiet(highspy.Highs)
         for option, value in (("output_flag", False), ("threads", 1), ("mip_rel_gap", 0.0), ("mip_abs_gap", 0.0)):
             self.h.setOptionValue(option, value)
         self.h.passModel(lp)
@@ -242,6 +258,9 @@ class SelectionModel:
     """The model built once over its units; ``best`` answers one top-k query at a time."""
 
     def __init__(self, units: list[Unit], shared: list[SharedLimit] = ()):
+        import highspy  # noqa: F401 - loaded before the clock starts: an import is not build time
+        import pyomo.core  # noqa: F401
+
         start = time.perf_counter()
         self.units, self.shared = list(units), list(shared)
         self.model = build_model(self.units, self.shared)
