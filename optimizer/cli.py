@@ -313,3 +313,7 @@ def schema(
 
 def main() -> None:  # pragma: no cover - console entry point
     app()
+
+
+if __name__ == "__main__":  # python -m towercost.cli
+    app()
