@@ -1,96 +1,74 @@
-"""Speed of exact design evaluation (optimizer/space.py) and of the one-design CLI commands.
+"""Speed of exact design evaluation and of the one-design CLI commands.
 
-* ``evaluate`` on 10**5 design points of the demo absorber in one vectorized
-  call: points drawn over the scenario's candidates, tray range and ratio
-  range (uniform trays, log-uniform L/Lmin), best of REPEATS calls.
-* Wall time of ``towercost evaluate`` and ``towercost rate`` run as a user
-  runs them: a fresh process of the virtual environment's ``towercost``,
-  output to a pipe, best of CLI_REPEATS. This includes interpreter start-up
-  and imports.
+* ``SingleColumn.evaluate`` on 10**5 design points of the demo absorber in
+  one vectorized call: points drawn over the scenario's candidates, tray
+  range and ratio range, best of REPEATS calls;
+* ``build_space`` of the six-solvent benchmark widened to 2000 ratio levels
+  (about 2.4 million alternatives), evaluated in chunks: alternatives per
+  second and the peak memory of the process;
+* wall time of ``towercost evaluate`` and ``towercost rate`` run as a user
+  runs them (a fresh process, output to a pipe, median of CLI_REPEATS after
+  a warm-up), which includes interpreter start-up and imports.
 
 Run: .venv/bin/python benchmarks/bench_evaluate.py
 """
 
 from __future__ import annotations
 
-import os
-import subprocess
+import resource
 import sys
-import time
+import tomllib
 from pathlib import Path
 
 import numpy as np
 
-ROOT = Path(__file__).resolve().parents[1]
-sys.path.insert(0, str(ROOT))  # run from a checkout without installing
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE))
 
-from towercost import space as sp  # noqa: E402
-from towercost.scenario import load_scenario  # noqa: E402
+from common import ROOT, best_seconds, cli_seconds  # noqa: E402
+
+import towercost  # noqa: E402
+from towercost.design.case import prepare  # noqa: E402
+from towercost.design.column import SingleColumn  # noqa: E402
+from towercost.design.space import build_space  # noqa: E402
 
 DEMO = ROOT / "scenarios" / "demo_absorber.toml"
+SIX = ROOT / "benchmarks" / "scenarios" / "six_solvents.toml"
 POINTS = 10**5
-REPEATS = 5
-CLI_REPEATS = 3
-
-
-def best_seconds(function, *args, repeats: int = REPEATS, **kwargs) -> tuple[float, object]:
-    """Seconds of the fastest of ``repeats`` calls, and the last call's result."""
-    best, result = float("inf"), None
-    for _ in range(repeats):
-        start = time.perf_counter()
-        result = function(*args, **kwargs)
-        best = min(best, time.perf_counter() - start)
-    return best, result
-
-
-def towercost_command() -> str:
-    """The ``towercost`` script of the interpreter running this file (the venv's), else the checkout's."""
-    here = Path(sys.executable).parent / "towercost"
-    return str(here if here.exists() else ROOT / ".venv" / "bin" / "towercost")
-
-
-def cli_seconds(arguments: list[str], repeats: int = CLI_REPEATS) -> float:
-    """Wall seconds of the fastest of ``repeats`` runs of ``towercost arguments`` (output to a pipe)."""
-    command = [towercost_command(), *arguments]
-    env = dict(os.environ, COLUMNS="120")
-
-    def once():
-        done = subprocess.run(command, cwd=ROOT, stdout=subprocess.PIPE, stderr=subprocess.PIPE, env=env)
-        if done.returncode != 0:
-            raise RuntimeError(f"{' '.join(command)} exited {done.returncode}: {done.stderr.decode()[-500:]}")
-        return done
-
-    return best_seconds(once, repeats=repeats)[0]
-
-
-def random_designs(case: sp.Case, points: int, seed: int = 20240602):
-    """Agent index, real trays and agent rate [mol/s] of ``points`` designs over the case's ranges."""
-    rng = np.random.default_rng(seed)
-    agent = rng.integers(0, len(case.agents), points)
-    trays = rng.integers(case.trays_range[0], case.trays_range[1] + 1, points)
-    lo, hi = case.ratio_range
-    ratio = np.exp(rng.uniform(np.log(lo), np.log(hi), points))
-    rate = ratio * sp.minimum_rate(case, np.arange(len(case.agents)))[agent]
-    return agent, trays, rate
 
 
 def main() -> list[tuple[str, float, str]]:
-    case = sp.prepare(load_scenario(DEMO))
-    agent, trays, rate = random_designs(case, POINTS)
-    seconds, designs = best_seconds(sp.evaluate, case, agent, trays, rate)
+    case = prepare(towercost.load(DEMO))
+    flowsheet = SingleColumn(case)
+    rng = np.random.default_rng(20240602)
+    agent = rng.integers(0, len(case.agents), POINTS)
+    trays = rng.integers(case.trays_range[0], case.trays_range[1] + 1, POINTS)
+    lo, hi = case.ratio_range
+    ratio = np.exp(rng.uniform(np.log(lo), np.log(hi), POINTS))
+    rate = ratio * flowsheet.rate_min[agent]
+    seconds, designs = best_seconds(flowsheet.evaluate, agent, trays, rate)
     assert len(designs) == POINTS and np.all(np.isfinite(designs.annualized))
 
+    raw = tomllib.loads(SIX.read_text(encoding="utf-8"))
+    raw["column"]["ratio_levels"] = 2000
+    big = prepare(towercost.from_dict(raw))
+    space_seconds, space = best_seconds(build_space, big, repeats=2)
+    peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0
+
     rows = [
-        (f"evaluate, {POINTS:.0e} designs, one call (demo)", seconds, "s"),
-        ("evaluate throughput (demo)", POINTS / seconds, "designs/s"),
-        ("CLI evaluate (demo, 16 trays, 1.5 Lmin), wall",
-         cli_seconds(["evaluate", str(DEMO.relative_to(ROOT)), "--solvent", "light wash oil",
-                      "--trays", "16", "--ratio", "1.5"]), "s"),
-        ("CLI rate --stages 8 --factor 1.4, wall", cli_seconds(["rate", "--stages", "8", "--factor", "1.4"]), "s"),
-        ("CLI --help, wall (start-up baseline)", cli_seconds(["--help"]), "s"),
+        ("evaluate 10^5 designs, one call", seconds, "s"),
+        ("evaluate throughput", POINTS / seconds, "designs/s"),
+        ("build_space six solvents x 80 trays x 2000 levels", space_seconds, "s"),
+        ("  alternatives", len(space), "designs"),
+        ("  throughput", len(space) / space_seconds, "designs/s"),
+        ("  peak memory of this process", peak, "MiB"),
+        ("CLI evaluate, wall", cli_seconds(["evaluate", str(DEMO.relative_to(ROOT)), "--solvent", "light wash oil",
+                                            "--trays", "16", "--ratio", "1.5"]), "s"),
+        ("CLI rate, wall", cli_seconds(["rate", "--stages", "8", "--factor", "1.4"]), "s"),
     ]
     for name, value, unit in rows:
-        print(f"{name:52s} {value:12.4g} {unit}")
+        text = f"{value:,}" if isinstance(value, int) else f"{value:.4g}"
+        print(f"{name:52s} {text:>12s} {unit}")
     return rows
 
 

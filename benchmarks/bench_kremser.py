@@ -1,4 +1,4 @@
-"""Throughput of the Kremser relation and its inverses (models/kremser.py).
+"""Throughput of the Kremser relation and its inverses (towercost.models.kremser).
 
 Each figure is the best of five timed calls on 10**6 points, in one process
 on one core. Points are drawn over the stated accurate range: factors
@@ -9,15 +9,12 @@ Run: .venv/bin/python benchmarks/bench_kremser.py
 
 from __future__ import annotations
 
-import sys
 import time
-from pathlib import Path
 
 import numpy as np
 
-sys.path.insert(0, str(Path(__file__).resolve().parents[1]))  # run from a checkout without installing
 
-from towercost.models import kremser  # noqa: E402
+from towercost.models import kremser
 
 POINTS = 10**6
 REPEATS = 5

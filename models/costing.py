@@ -235,7 +235,7 @@ def purchased_cost(item: str, size, *, warnings: list[str] | None = None):
     check_range(row["size"], area, low, high, row["size_unit"], f"{item} purchased cost (Turton Table A.1)", warnings)
     inside = np.clip(area, low, high)
     log_size = np.log10(inside)
-    cost = 10.0 ** (row["k1"] + row["k2"] * log_size + row["k3"] * log_size**2)
+    cost = 10.0 ** (row["k1"] + log_size * (row["k2"] + row["k3"] * log_size))
     beyond = area != inside
     if np.any(beyond):
         cost = np.where(beyond, cost * (area / inside) ** SIX_TENTHS, cost)
@@ -382,9 +382,11 @@ def pressure_factor(item: str, pressure_gauge, *, warnings: list[str] | None = N
     check_range(what, np.maximum(pressure, table["low"]), table["low"], table["high"], table["unit"],
                 f"{item} pressure factor (Turton Table A.2)", warnings)
     inside = pressure >= table["low"]
-    log_p = np.log10(np.where(inside, pressure, table["low"]))
-    factor = 10.0 ** (table["c1"] + table["c2"] * log_p + table["c3"] * log_p**2)
-    return np.where(inside, factor, 1.0)
+    factor = np.ones(np.shape(pressure))
+    if np.any(inside):   # the fit only where it applies (pumps below 10 barg are the usual case)
+        log_p = np.log10(pressure[inside])
+        factor[inside] = 10.0 ** (table["c1"] + table["c2"] * log_p + table["c3"] * log_p**2)
+    return factor
 
 
 def material_factor(item: str, material: str) -> float:
@@ -464,9 +466,12 @@ def tray_quantity_factor(trays):
     count = np.asarray(trays, dtype=float)
     if np.any(~(count >= 1.0)):
         raise ValueError(f"number of trays must be >= 1, got {trays!r}")
-    log_n = np.log10(np.minimum(count, 20.0))
-    factor = 10.0 ** (0.4771 + 0.08516 * log_n - 0.3473 * log_n**2)
-    return np.where(count < 20.0, factor, 1.0)
+    factor = np.ones(np.shape(count))
+    few = count < 20.0
+    if np.any(few):   # the fit only where it applies
+        log_n = np.log10(count[few])
+        factor[few] = 10.0 ** (0.4771 + 0.08516 * log_n - 0.3473 * log_n**2)
+    return factor
 
 
 # --------------------------------------------------------------------------- bare module

@@ -255,9 +255,11 @@ class SingleColumn:
             electric_power=electric, steam_rate=steam_rate, cooling_rate=cooling_rate, makeup_rate=purge,
             bare_module=annual.bare_module, total_module=annual.total_module, installed=annual.installed,
             operating=annual.operating, credit=annual.credit, capital_charge=annual.capital_charge,
-            annualized=annual.annualized, use_cost=annual.use_cost,
+            annualized=annual.annualized,
             escalation=np.broadcast_to(annual.escalation, rate.shape + annual.escalation.shape[-1:]),
         )
-        designs = Designs(agent, trays.astype(int), rate, diameter, figures, equipment, uses, notes)
-        designs.figures["within_limits"] = limits_met(limit_table(case, designs), len(designs))
+        designs = Designs(agent, trays.astype(int), rate, diameter, figures, equipment, uses, notes,
+                          use_cost_rows=annual.use_cost)
+        designs.limits = limit_table(case, designs)
+        designs.figures["within_limits"] = limits_met(designs.limits, len(designs))
         return designs

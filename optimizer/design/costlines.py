@@ -234,7 +234,7 @@ class Annual:
     bare_module: np.ndarray       # [USD] sum over items, at the estimate's index
     total_module: np.ndarray      # [USD] with contingency and fee
     installed: np.ndarray         # [USD] grassroots, with auxiliary facilities
-    use_cost: np.ndarray          # (..., n, uses) [USD/yr], credits positive
+    use_cost: list[np.ndarray]    # per consumption row, (n,) or (S, n) [USD/yr], credits positive
     operating: np.ndarray         # [USD/yr] sum of the cost rows
     credit: np.ndarray            # [USD/yr] sum of the credit rows
     capital_charge: np.ndarray    # [USD/yr] capital recovery x installed
@@ -288,10 +288,8 @@ def annualize(equipment: Equipment, uses: Uses, eco, unit_price=None) -> Annual:
         else:
             columns.append(economics.annual_utility_cost(row.rate, p, hours))
     shape = np.broadcast_shapes(*(np.shape(col) for col in columns))
-    use_cost = np.empty(shape + (len(columns),))
     operating, credit = np.zeros(shape), np.zeros(shape)
-    for c, (row, col) in enumerate(zip(uses.rows, columns)):
-        use_cost[..., c] = col
+    for row, col in zip(uses.rows, columns):
         if row.spec.credit:
             credit = credit + col
         else:
@@ -300,5 +298,5 @@ def annualize(equipment: Equipment, uses: Uses, eco, unit_price=None) -> Annual:
     installed = capital.grassroots
     annualized = economics.annualized_cost(installed, recovery, operating, credit)
     return Annual(escalation=equipment.escalation(eco.index_to), bare_module=bare,
-                  total_module=capital.total_module, installed=installed, use_cost=use_cost, operating=operating,
+                  total_module=capital.total_module, installed=installed, use_cost=columns, operating=operating,
                   credit=credit, capital_charge=recovery * installed, annualized=annualized)

@@ -62,7 +62,6 @@ FIGURES: dict[str, tuple[str, str]] = {
     "credit": ("USD/yr", "credit for recovered solute"),
     "capital_charge": ("USD/yr", "capital recovery x installed cost"),
     "annualized": ("USD/yr", "total annualized cost"),
-    "use_cost": ("USD/yr", "yearly cost (or credit) per consumption row"),
     "escalation": ("-", "cost-index factor of each equipment item, from its basis to the estimate's index"),
 }
 
@@ -70,6 +69,7 @@ FIGURES: dict[str, tuple[str, str]] = {
 DERIVED = {
     "purchased": ("USD", "purchased cost per equipment item, at the estimate's index"),
     "bare_module_items": ("USD", "bare-module cost per equipment item, at the estimate's index"),
+    "use_cost": ("USD/yr", "yearly cost (or credit) per consumption row"),
 }
 
 DECISIONS = ("agent", "trays", "rate", "diameter")
@@ -87,6 +87,8 @@ class Designs:
     equipment: Equipment
     uses: Uses
     warnings: list[str] = field(default_factory=list)
+    use_cost_rows: list[np.ndarray] | None = None   # yearly cost of each consumption row, as priced
+    limits: list = field(default_factory=list, repr=False)   # the scenario's limits over these points, as checked
 
     def __getattr__(self, name: str):
         figures = self.__dict__.get("figures")
@@ -100,6 +102,14 @@ class Designs:
         return self.equipment.purchased * self.figures["escalation"]
 
     @property
+    def use_cost(self) -> np.ndarray:
+        """(n, uses) yearly cost of each consumption row [USD/yr]; credits are positive."""
+        table = np.empty((len(self), len(self.uses.specs)))
+        for j, column in enumerate(self.use_cost_rows):
+            table[:, j] = column
+        return table
+
+    @property
     def bare_module_items(self) -> np.ndarray:
         """(n, items) bare-module cost of each equipment row at the estimate's index [USD]."""
         return self.equipment.bare_module * self.figures["escalation"]
@@ -111,7 +121,7 @@ class Designs:
         """The designs at ``index`` (an integer array or a mask)."""
         return Designs(self.agent[index], self.trays[index], self.rate[index], self.diameter[index],
                        {k: v[index] for k, v in self.figures.items()}, self.equipment.take(index),
-                       self.uses.take(index), list(self.warnings))
+                       self.uses.take(index), list(self.warnings), [c[index] for c in self.use_cost_rows])
 
     @classmethod
     def concatenate(cls, parts: list["Designs"]) -> "Designs":
@@ -123,7 +133,7 @@ class Designs:
         return cls(*(np.concatenate([getattr(p, name) for p in parts]) for name in DECISIONS),
                    {k: np.concatenate([p.figures[k] for p in parts]) for k in first.figures},
                    Equipment.concatenate([p.equipment for p in parts]), Uses.concatenate([p.uses for p in parts]),
-                   merged)
+                   merged, [np.concatenate(rows) for rows in zip(*(p.use_cost_rows for p in parts))])
 
     def to_frame(self, case=None):
         """A pandas table: one row per design, one column per decision, figure, item and use.
@@ -139,7 +149,8 @@ class Designs:
         for name in ("trays", "rate", "diameter"):
             columns[name] = getattr(self, name)
         solutes = list(case.solutes) if case is not None else None
-        figures = {**self.figures, "purchased": self.purchased, "bare_module_items": self.bare_module_items}
+        figures = {**self.figures, "purchased": self.purchased, "bare_module_items": self.bare_module_items,
+                   "use_cost": self.use_cost}
         for name, values in figures.items():
             if values.ndim == 1:
                 columns[name] = values

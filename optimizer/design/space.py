@@ -21,7 +21,6 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from towercost.design import cascade
 from towercost.design.case import Case
 from towercost.design.column import CHUNK, SingleColumn
 from towercost.design.designs import Designs
@@ -68,9 +67,8 @@ class Space:
     @property
     def ratio(self) -> np.ndarray:
         """Agent rate over its minimum (L/Lmin or G/Gmin)."""
-        rate_min = cascade.minimum_rate(self.case, np.arange(len(self.case.agents)))
         with np.errstate(divide="ignore", invalid="ignore"):
-            return self.rate / rate_min[self.agent]
+            return self.rate / self.flowsheet.rate_min[self.agent]
 
     @property
     def group(self) -> np.ndarray:
@@ -116,8 +114,10 @@ def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: i
     flowsheet = SingleColumn(case)
     chosen = np.arange(len(case.agents)) if agents is None else np.asarray(agents, dtype=int)
     estimate = flowsheet.estimate() * chosen.size // max(len(case.agents), 1)
-    parts: dict[str, list[np.ndarray]] = {k: [] for k in ("agent", "trays", "rate", "diameter", "cost",
-                                                          "feasible", "least", *keep)}
+    # Columns filled in place, chunk by chunk: no list of parts to join, so no second copy at the end.
+    dtypes = {"agent": np.int32, "trays": np.int32, "rate": float, "diameter": float, "cost": float,
+              "feasible": bool, "least": bool, **{name: float for name in keep}}
+    columns = {name: np.empty(estimate, dtype) for name, dtype in dtypes.items()}
     floors: dict[str, LimitFloor] = {}
     spec_met = 0
     done = 0
@@ -129,21 +129,22 @@ def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: i
         for wider in flowsheet.wider(base):   # the same separation in a larger shell: only sizing and cost change
             pieces.append((flowsheet.price(separated, wider), batch.least))
         for designs, least in pieces:
-            parts["agent"].append(designs.agent.astype(np.int32))
-            parts["trays"].append(designs.trays.astype(np.int32))
-            parts["rate"].append(designs.rate)
-            parts["diameter"].append(designs.diameter)
-            parts["cost"].append(designs.annualized)
-            parts["feasible"].append(designs.within_limits)
-            parts["least"].append(least)
-            for name in keep:
-                parts[name].append(getattr(designs, name))
+            end = done + len(designs)
+            if end > estimate:   # not expected: the estimate is an upper bound
+                raise RuntimeError(f"the space outgrew its estimate of {estimate:,} alternatives")
+            values = {"agent": designs.agent, "trays": designs.trays, "rate": designs.rate,
+                      "diameter": designs.diameter, "cost": designs.annualized,
+                      "feasible": designs.within_limits, "least": least,
+                      **{name: getattr(designs, name) for name in keep}}
+            for name, column in columns.items():
+                column[done:end] = values[name]
             spec_met += _gather_floors(case, designs, floors)
-            done += len(designs)
+            done = end
         if progress is not None:
             progress(done, max(estimate, done))
-    empty = {"agent": np.int32, "trays": np.int32, "feasible": bool, "least": bool}
-    columns = {k: (np.concatenate(v) if v else np.zeros(0, empty.get(k, float))) for k, v in parts.items()}
+    if progress is not None:
+        progress(done, done)
+    columns = {name: column[:done] for name, column in columns.items()}
     usage = {name: columns.pop(name) for name in keep}
     return Space(case=case, flowsheet=flowsheet, usage=usage, floors=floors, spec_met=spec_met, agents=chosen,
                  **columns)
@@ -151,7 +152,7 @@ def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: i
 
 def _gather_floors(case: Case, designs: Designs, floors: dict[str, LimitFloor]) -> int:
     """Update, per limit, the least value among spec-meeting designs; return how many met the spec."""
-    limits = limit_table(case, designs)
+    limits = designs.limits or limit_table(case, designs)
     meets = np.ones(len(designs), bool)
     for limit in limits:
         if limit.is_spec:

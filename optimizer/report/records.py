@@ -39,10 +39,10 @@ def equipment_rows(case, d, i: int = 0) -> list[dict]:
 
 def use_rows(d, i: int = 0) -> list[dict]:
     """One row per consumption of design ``i``: rate, unit price and yearly cost (credits as credits)."""
-    uses = d.uses
+    uses, cost = d.uses, d.use_cost
     return [{"use": spec.key, "label": spec.label, "rate": float(uses.rate[i, j]), "rate_unit": spec.rate_unit,
              "unit_price": float(uses.unit_price[i, j]), "price_unit": spec.price_unit,
-             ("credit_USD_per_yr" if spec.credit else "cost_USD_per_yr"): float(d.use_cost[i, j])}
+             ("credit_USD_per_yr" if spec.credit else "cost_USD_per_yr"): float(cost[i, j])}
             for j, spec in enumerate(uses.specs)]
 
 
