@@ -18,7 +18,7 @@ demo: $(STAMP)
 	$(BIN)/towercost optimize scenarios/demo_absorber.toml
 
 test: $(STAMP)
-	$(BIN)/python -m pytest -q models optimizer tests
+	$(BIN)/python -m pytest -q models optimizer tests README.md
 
 bench: $(STAMP)
 	$(BIN)/python benchmarks/run.py

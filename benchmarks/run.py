@@ -4,12 +4,14 @@ What ``make bench`` runs: .venv/bin/python benchmarks/run.py
 
 The modules (each also runs alone and prints its own rows):
   bench_kremser    throughput of the Kremser relation and its inverses
-  bench_evaluate   exact evaluation of 10**5 designs; one-design CLI commands
-  bench_optimizer  space, model, scan, optimize command and a plain loop, two scenarios
+  bench_evaluate   exact evaluation of 10**5 designs and of a 2.4 M space; one-design CLI commands
+  bench_optimizer  space, model, scan, in-process and whole-process model/scan ratios, a plain loop
+  bench_scaling    10**3 to 10**7 alternatives: model and scan time, their ratio, peak memory
 
-Figures are wall-clock seconds (time.perf_counter), best of several runs
-where a run is cheap, on one process; the machine may be shared, so treat
-differences under about 20 % as noise.
+Figures are wall-clock seconds (time.perf_counter): best of several calls
+where a call is cheap, medians of alternating runs where two things are
+compared (the ratio is the median of the pairs); the machine may be shared,
+so treat differences under about 20 % as noise.
 """
 
 from __future__ import annotations
@@ -21,14 +23,14 @@ import time
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
-sys.path.insert(0, str(HERE.parent))  # run from a checkout without installing
 sys.path.insert(0, str(HERE))
 
 import bench_evaluate  # noqa: E402
 import bench_kremser  # noqa: E402
 import bench_optimizer  # noqa: E402
+import bench_scaling  # noqa: E402
 
-MODULES = (bench_kremser, bench_evaluate, bench_optimizer)
+MODULES = (bench_kremser, bench_evaluate, bench_optimizer, bench_scaling)
 
 
 def cpu_model() -> str:
@@ -49,7 +51,7 @@ def machine() -> list[tuple[str, str]]:
     except AttributeError:
         usable = os.cpu_count() or 0
     versions = []
-    for package in ("numpy", "pyomo", "highspy"):
+    for package in ("numpy", "pyomo", "highspy", "towercost"):
         try:
             from importlib.metadata import version
 

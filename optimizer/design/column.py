@@ -34,7 +34,7 @@ from towercost.design.costlines import (AGENT, COOLING, DISPOSAL, ELECTRICITY, S
                                         annualize, credit_spec, price_item)
 from towercost.design.designs import Designs
 from towercost.design.internals import Loads, Trays
-from towercost.design.limits import limit_table, limits_met
+from towercost.design.limits import RATIO_TOLERANCE, limit_table, limits_met
 from towercost.models import defaults, economics, vessel
 from towercost.models.constants import GRAVITY, STANDARD_ATMOSPHERE
 from towercost.models.properties import ideal_gas_density
@@ -123,7 +123,7 @@ class SingleColumn:
         lo, hi = case.ratio_range
         least = np.maximum(cascade.least_rate(case, grid_agent, grid_trays), lo * rate_min)
         levels = self.rate_grid()
-        reach = np.isfinite(least) & (least <= hi * rate_min * (1 + 1e-12))
+        reach = np.isfinite(least) & (least <= hi * rate_min * (1 + RATIO_TOLERANCE))
         per_rate = self.diameters_per_rate()
         groups = np.flatnonzero(reach)
         per_group = (1 + levels.size) * per_rate

@@ -10,6 +10,7 @@ import numpy as np
 from rich.console import Console
 from rich.table import Table
 
+from towercost.design.limits import SPEC_TOLERANCE
 from towercost.report.records import CAUTION, KMOL_H
 from towercost.scenario.units import mole_fraction_text
 
@@ -58,7 +59,7 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
                  "removed", right=(1, 2, 3, 4, 5, 6, 7))
     for s, name in enumerate(case.solutes):
         inlet, out, target = case.feed_in[s], d.outlet[i, s], case.target[s]
-        mark = "" if out <= target * (1 + 1e-9) else "  (misses)"
+        mark = "" if out <= target * (1 + SPEC_TOLERANCE) else "  (misses)"
         sep.add_row(name, f"{case.k_value[a, s]:.4g}", f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}",
                     mole_fraction_text(inlet), mole_fraction_text(out) + mark, mole_fraction_text(target), f"{100 * (1 - out / inlet):.3f} %")
     console.print(sep)

@@ -216,7 +216,7 @@ class _Solver:
                     continue
                 raise RuntimeError(f"HiGHS stopped with status {self.h.modelStatusToString(status)}")
             values = np.asarray(self.h.getSolution().col_value)
-            integral = np.all((values < 1e-9) | (values > 1 - 1e-9))
+            integral = np.all((values < INTEGRALITY) | (values > 1 - INTEGRALITY))
             if integral or self.is_mip:
                 return values, float(self.h.getInfo().objective_function_value)
             self._restore_binaries()
@@ -239,6 +239,9 @@ def _polish(units: list[Unit], offsets: np.ndarray, allowed: np.ndarray, choice:
         polished.append(int(best))
     return polished
 
+
+#: A relaxation value this close to 0 or 1 counts as integral.
+INTEGRALITY = 1e-9
 
 #: Choices met only within the solver's tolerance that may be cut off before giving up.
 MAX_REJECTED = 100

@@ -17,7 +17,7 @@ import numpy as np
 
 from towercost.design import cascade
 from towercost.design.case import Case, agent_index, prepare
-from towercost.design.column import SingleColumn
+from towercost.design.column import SAME_RATE, SingleColumn
 from towercost.design.designs import Designs
 from towercost.design.cascade import dilute_checks
 from towercost.design.reasons import infeasible_reason
@@ -193,8 +193,8 @@ def cost_curve(scenario: Scenario, agent: str) -> Curve:
     # the grid levels: every alternative that is not a least-rate point sits on one of them
     levels = space.flowsheet.rate_grid()
     ratio = space.ratio
-    level = np.clip(np.searchsorted(levels, ratio * (1 - 1e-9)), 0, levels.size - 1)
-    on_grid = ~space.least & np.isclose(ratio, levels[level], rtol=1e-9)
+    level = np.clip(np.searchsorted(levels, ratio * (1 - SAME_RATE)), 0, levels.size - 1)
+    on_grid = ~space.least & np.isclose(ratio, levels[level], rtol=SAME_RATE)
     by_trays = _cheapest_per(space.trays, order)
     by_ratio = _cheapest_per(level, order[on_grid[order]])
     return Curve(case=case, agent=agent, by_trays=space.designs(by_trays), by_ratio=space.designs(by_ratio))
