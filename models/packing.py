@@ -50,6 +50,7 @@ __all__ = [
     "PackedDiameter",
     "bed_split",
     "check_diameter_ratio",
+    "check_temperature",
     "check_wetting",
     "dry_pressure_drop",
     "flooding_gas_velocity",
@@ -1019,7 +1020,7 @@ def _area(diameter):
 
 def _flood_diameter(gas_volume_flow, liquid_volume_flow, rho_g, rho_l, mu_g, eps, area, k1, k2, k3):
     """Diameter at which the column floods with the given volume flows [m]."""
-    low, high = np.log(np.full(gas_volume_flow.shape, 1e-3)), np.log(np.full(gas_volume_flow.shape, 1e2))
+    low, high = np.log(np.full(gas_volume_flow.shape, 1e-4)), np.log(np.full(gas_volume_flow.shape, 1e3))
     for _ in range(_BISECTION_STEPS):
         mid = 0.5 * (low + high)
         cross = _area(np.exp(mid))
@@ -1313,6 +1314,41 @@ def check_diameter_ratio(diameter, nominal_size, minimum_ratio=10.0, *, warnings
         warnings.append(
             f"{int((~ok).sum())} of {ok.size} columns are narrower than {float(np.max(ratio[~ok])):.3g} "
             "packing sizes (common practice): choose a smaller packing or expect wall channelling"
+        )
+    return ok
+
+
+def check_temperature(temperature, max_temperature, *, warnings: list[str] | None = None):
+    r"""Flag design points hotter than the packing material allows.
+
+        ok = T <= T_max
+
+    Parameters
+    ----------
+    temperature : array_like
+        Highest operating temperature in the bed T [K].
+    max_temperature : array_like
+        T_max of the packing [K] (``max_temperature`` in ``packings.toml``,
+        common practice by material).
+    warnings : list of str, optional
+        Receives one message if any point is too hot.
+
+    Returns
+    -------
+    ndarray of bool
+        True where the packing may be used.
+
+    Examples
+    --------
+    >>> check_temperature([320.0, 390.0], 373.0).tolist()
+    [True, False]
+    """
+    t, t_max = _arrays(temperature, max_temperature)
+    ok = t <= t_max
+    if warnings is not None and not np.all(ok):
+        warnings.append(
+            f"{int((~ok).sum())} of {ok.size} points run the packing above its temperature limit "
+            f"({float(np.max(t[~ok])):.4g} K against {float(np.min(t_max[~ok])):.4g} K, common practice)"
         )
     return ok
 

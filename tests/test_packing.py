@@ -339,6 +339,14 @@ def test_diameter_ratio_check():
     assert ok.tolist() == [False, True, True] and len(warnings) == 1
 
 
+def test_temperature_check():
+    # Common practice: polypropylene packing no hotter than about 100 C.
+    warnings: list[str] = []
+    limit = pk.packing_data("pall_ring_plastic_50")["max_temperature"]
+    assert pk.check_temperature([300.0, 400.0], limit, warnings=warnings).tolist() == [True, False]
+    assert len(warnings) == 1
+
+
 def test_bed_split():
     split = pk.bed_split(np.array([0.0, 6.0, 6.000000001, 13.0]), 6.0)
     assert split.beds.tolist() == [1, 1, 1, 3]
