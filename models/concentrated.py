@@ -918,8 +918,12 @@ def minimum_solvent_rate(gas_rate, k_value, gas_in, gas_out, liquid_in=0.0, *, s
     The operating line runs from the top point (X_0, Y_1) with slope L'/G'
     and must stay above Y*(X) up to the rich end. Its least slope is the
     largest chord slope (Y*(X) - Y_1) / (X - X_0) over the column: for a
-    curve that bends down (K < 1) it can be a tangent inside the column
-    (:func:`_tangent_point`), otherwise the line pinches at the rich end,
+    curve that bends down (K < 1) it can be a tangent inside the column,
+    whose touching point is the root of a quadratic,
+
+        c (K - c Y_1) X**2 - 2 c Y_1 X + (K X_0 - Y_1) = 0,    c = 1 - K,
+
+    otherwise the line pinches at the rich end,
     X_N = X*(Y_{N+1}):
 
         L'_min = G' max[ (Y_{N+1} - Y_1) / (X*(Y_{N+1}) - X_0),  slope at the tangent if inside ]
@@ -943,11 +947,12 @@ def minimum_solvent_rate(gas_rate, k_value, gas_in, gas_out, liquid_in=0.0, *, s
     -------
     MinimumFlow
         rate L'_min [mol/s], liquid_out X_N at L'_min, gas_out Y_1, the pinch
-        point and whether it is a tangent.
+        point and whether it is a tangent; with ``strict=False`` an
+        unreachable target gives rate inf and liquid_out NaN.
 
-    Source: Treybal, Mass-Transfer Operations, 3rd ed. (1980), Section 8
-    (minimum liquid-gas ratio, Fig. 8.x; value from memory for the figure),
-    Illustration 8.2 (tangent pinch of the wash-oil absorber).
+    Source: Treybal, Mass-Transfer Operations, 3rd ed. (1980), Chapter 8
+    (minimum liquid-gas ratio for absorbers; value from memory for the
+    section), Illustration 8.2 (tangent pinch of the wash-oil absorber).
 
     Examples
     --------
@@ -990,9 +995,10 @@ def minimum_stripping_rate(liquid_rate, k_value, liquid_in, liquid_out, gas_in=0
     The operating line runs from the bottom point (X_N, Y_{N+1}) with slope
     L'/G' and must stay below Y*(X) up to the top. Its largest slope is the
     least chord slope (Y*(X) - Y_{N+1}) / (X - X_N) over the column: for a
-    curve that bends up (K > 1) it can be a tangent inside the column,
-    otherwise the line pinches at the top, in equilibrium with the entering
-    liquid, Y_1 = Y*(X_0):
+    curve that bends up (K > 1) it can be a tangent inside the column (the
+    quadratic of :func:`minimum_solvent_rate` with the bottom point
+    (X_N, Y_{N+1}) in place of the top one), otherwise the line pinches at
+    the top, in equilibrium with the entering liquid, Y_1 = Y*(X_0):
 
         G'_min = L' / min[ (Y*(X_0) - Y_{N+1}) / (X_0 - X_N),  slope at the tangent if inside ]
 
@@ -1014,7 +1020,8 @@ def minimum_stripping_rate(liquid_rate, k_value, liquid_in, liquid_out, gas_in=0
     -------
     MinimumFlow
         rate G'_min [mol/s], gas_out Y_1 at G'_min, liquid_out X_N, the pinch
-        point and whether it is a tangent.
+        point and whether it is a tangent; with ``strict=False`` an
+        unreachable target gives rate inf and gas_out NaN.
 
     Source: Treybal, Mass-Transfer Operations, 3rd ed. (1980), Chapter 8,
     Illustration 8.2 (tangent pinch of the steam stripper).

@@ -247,8 +247,8 @@ def correction_factor(ratio_r, ratio_p, *, warnings: list[str] | None = None):
     ratio_p : array_like
         P = (t_2 - t_1) / (T_1 - t_1) [-], in [0, 1).
     warnings : list of str, optional
-        Receives a message where F < 0.75, below which a design with more
-        shell passes is usual (common practice).
+        Receives a message where F < 0.75 (F = 0 included), below which a
+        design with more shell passes is usual (common practice).
 
     Returns
     -------
@@ -280,7 +280,7 @@ def correction_factor(ratio_r, ratio_p, *, warnings: list[str] | None = None):
     """
     r, p = _check_ratios(ratio_r, ratio_p)
     factor = _one_shell(r, p)
-    check_range("LMTD correction factor", np.where(factor > 0.0, factor, 1.0), MINIMUM_CORRECTION_FACTOR, 1.0, "-",
+    check_range("LMTD correction factor", factor, MINIMUM_CORRECTION_FACTOR, 1.0, "-",
                 "one shell pass (common practice: add shell passes below it)", warnings)
     return factor
 
@@ -345,9 +345,8 @@ def correction_factor_shells(ratio_r, ratio_p, shells, *, warnings: list[str] | 
     p_in = np.where(counterflow, p, 0.0)
     per_shell = np.where(count == 1.0, p_in, _per_shell_effectiveness(r, p_in, count))
     factor = np.where(counterflow, _one_shell(r, per_shell), 0.0)
-    check_range("LMTD correction factor", np.where(factor > 0.0, factor, 1.0), MINIMUM_CORRECTION_FACTOR, 1.0, "-",
-                f"{int(count.max()) if count.size else 1} shell passes (common practice: add shell passes below it)",
-                warnings)
+    check_range("LMTD correction factor", factor, MINIMUM_CORRECTION_FACTOR, 1.0, "-",
+                "the shell passes given (common practice: add shell passes below it)", warnings)
     return factor
 
 
@@ -464,10 +463,11 @@ def cross_exchanger(rich_in, lean_in, approach, rich_capacity_rate, lean_capacit
     Notes
     -----
     Constant heat capacities, no phase change (a rich solvent that flashes
-    in the exchanger is outside this relation). Source: energy balance with
-    the minimum approach at the C_min outlet, as in Seider, Seader, Lewin and
-    Widagdo, Product and Process Design Principles, 3rd ed. (2009),
-    Chapter 9 (value from memory for the chapter).
+    in the exchanger is outside this relation). Source: the energy balances
+    of both streams; that the closest approach sits at the C_min outlet
+    follows from them, since dT_hot end - dT_cold end = Q (1/C_lean - 1/C_rich)
+    (derived here; an approach temperature as the design variable is common
+    practice).
 
     Examples
     --------
@@ -495,7 +495,8 @@ def water_heat_capacity(temperature, pressure=_COOLING_WATER_PRESSURE):
     Parameters
     ----------
     temperature : array_like
-        Temperature [K], 273.16 to 373 K at atmospheric pressure (liquid).
+        Temperature [K], above 273.16 K and below the boiling point at
+        ``pressure`` (liquid water).
     pressure : float
         Pressure [Pa].
 
@@ -515,12 +516,14 @@ def water_heat_capacity(temperature, pressure=_COOLING_WATER_PRESSURE):
     >>> round(float(water_heat_capacity(298.15)), 1)
     4181.3
     """
-    from chemicals.iapws import iapws95_properties
+    from chemicals.iapws import iapws95_Psat, iapws95_properties
 
     temperature = np.asarray(temperature, dtype=float)
-    if np.any(~(temperature > _WATER_TRIPLE)):
-        raise ValueError("water temperature must be above the triple point, 273.16 K")
+    if np.any(~((temperature > _WATER_TRIPLE) & (temperature < _WATER_CRITICAL))):
+        raise ValueError("water temperature must lie between the triple point, 273.16 K, and 647.096 K")
     distinct, where = np.unique(temperature, return_inverse=True)
+    if any(iapws95_Psat(float(t)) >= pressure for t in distinct):
+        raise ValueError(f"water at {float(distinct.max()):.2f} K boils at {pressure:.6g} Pa; cooling water must be liquid")
     values = np.array([iapws95_properties(float(t), float(pressure))[5] for t in distinct])
     return values[where].reshape(temperature.shape)
 

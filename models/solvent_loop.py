@@ -306,9 +306,11 @@ def kremser_loop_lean_loading(absorption_factor, absorber_stages, gas_in, absorb
 
     so a = 1 - (1 - phi_a)/A, b = (1 - phi_a) y_in / (A K_a), c = phi_r,
     d = (1 - phi_r) y_s / K_r in :func:`linear_loop_lean_loading`. Since
-    1 - phi_a <= A (Kremser), 0 <= a < 1, and the loop always converges; a
-    regenerator that barely strips (phi_r -> 1) lets the lean loading rise
-    towards y_in / K_a, where the absorber stops taking the solute up.
+    1 - phi_a < A for any stages (Kremser), 0 < a <= 1 (a = 1 only without
+    absorber stages) and 0 < c <= 1, so the loop converges whenever either
+    column has a stage; a regenerator that barely strips (phi_r -> 1) lets
+    the lean loading rise towards y_in / K_a, where the absorber stops
+    taking the solute up.
 
     Parameters
     ----------

@@ -19,7 +19,7 @@ from hypothesis import strategies as st
 from scipy.optimize import brentq, root
 
 from towercost.models import concentrated, kremser
-from towercost.models.equilibrium import GAS_CONSTANT, gas_ratio_at_equilibrium
+from towercost.models.equilibrium import GAS_CONSTANT, gas_ratio_at_equilibrium, liquid_ratio_at_equilibrium
 
 # ---------------------------------------------------------------------------
 # Treybal's wash-oil absorber and steam stripper (Illustrations 8.2 and 8.3)
@@ -248,7 +248,7 @@ def test_averaged_outlets_against_the_oracle():
     exact = concentrated.stagewise_outlets(liquid, gas, k, x_in, y_in, stages)
     approx = concentrated.averaged_outlets(liquid, gas, k, x_in, y_in, stages)
     y_eq = gas_ratio_at_equilibrium(x_in, k)
-    x_eq = concentrated._liquid_ratio_curve(y_in, k)
+    x_eq = liquid_ratio_at_equilibrium(y_in, k)
     absorbing = y_in > y_eq
     error = np.where(absorbing, np.abs(approx.gas_out - exact.gas_out) / np.abs(y_in - y_eq),
                      np.abs(approx.liquid_out - exact.liquid_out) / np.abs(x_eq - x_in))
@@ -332,7 +332,7 @@ def test_averaged_factor_warns_when_ends_differ():
 def test_minimum_solvent_is_the_largest_chord_slope(k_value, gas_in, gas_out, liquid_in):
     # Independent method: the largest chord slope from the top point over a fine grid of the curve.
     out = concentrated.minimum_solvent_rate(1.0, k_value, gas_in, gas_out, liquid_in)
-    rich_end = float(concentrated._liquid_ratio_curve(np.array(gas_in), np.array(k_value)))
+    rich_end = float(liquid_ratio_at_equilibrium(gas_in, k_value))
     grid = np.linspace(liquid_in, rich_end, 400001)[1:]
     chords = (gas_ratio_at_equilibrium(grid, k_value) - gas_out) / (grid - liquid_in)
     assert float(out.rate) == pytest.approx(chords.max(), rel=1e-8)
@@ -359,26 +359,21 @@ def test_tangent_point_against_a_root_finder():
         return k / (1 + (1 - k) * x) ** 2 * (x - LEAN) - (k * x / (1 + (1 - k) * x) - GAS_OUT)
 
     expected = brentq(condition, 0.01, 1.0, xtol=1e-15)
-    got = concentrated._tangent_point(np.array(k), np.array(LEAN), np.array(GAS_OUT))
+    got = concentrated.minimum_solvent_rate(CARRIER, k, GAS_IN, GAS_OUT, LEAN).pinch_liquid
     assert float(got) == pytest.approx(expected, rel=1e-12)
 
 
 def test_stages_finite_just_above_minimum_and_infinite_below():
-    # Property: the minimum rate is where the cascade pinches.
-    for args, rate_of, counter in (
-        ((GAS_IN, GAS_OUT, LEAN), concentrated.minimum_solvent_rate, "absorber"),
-        ((BOOK_RICH, LEAN, 0.0), concentrated.minimum_stripping_rate, "stripper"),
-    ):
-        if counter == "absorber":
-            least = float(concentrated.minimum_solvent_rate(CARRIER, K_ABSORBER, *args).rate)
-            above = concentrated.stagewise_absorber_stages(least * 1.01, CARRIER, K_ABSORBER, *args)
-            below = concentrated.stagewise_absorber_stages(least * 0.99, CARRIER, K_ABSORBER, *args)
-        else:
-            least = float(concentrated.minimum_stripping_rate(BOOK_OIL, K_STRIPPER, *args).rate)
-            above = concentrated.stagewise_stripper_stages(BOOK_OIL, least * 1.01, K_STRIPPER, *args)
-            below = concentrated.stagewise_stripper_stages(BOOK_OIL, least * 0.99, K_STRIPPER, *args)
-        assert np.isfinite(above.stages)
-        assert np.isinf(below.stages)
+    # Property: the minimum rate is where the cascade pinches (stage by stage, independent of the
+    # chord-slope construction).
+    least = float(concentrated.minimum_solvent_rate(CARRIER, K_ABSORBER, GAS_IN, GAS_OUT, LEAN).rate)
+    above = concentrated.stagewise_absorber_stages(least * 1.01, CARRIER, K_ABSORBER, GAS_IN, GAS_OUT, LEAN)
+    below = concentrated.stagewise_absorber_stages(least * 0.99, CARRIER, K_ABSORBER, GAS_IN, GAS_OUT, LEAN)
+    assert np.isfinite(above.stages) and np.isinf(below.stages)
+    least = float(concentrated.minimum_stripping_rate(BOOK_OIL, K_STRIPPER, BOOK_RICH, LEAN, 0.0).rate)
+    above = concentrated.stagewise_stripper_stages(BOOK_OIL, least * 1.01, K_STRIPPER, BOOK_RICH, LEAN, 0.0)
+    below = concentrated.stagewise_stripper_stages(BOOK_OIL, least * 0.99, K_STRIPPER, BOOK_RICH, LEAN, 0.0)
+    assert np.isfinite(above.stages) and np.isinf(below.stages)
 
 
 def test_unreachable_targets():

@@ -388,3 +388,9 @@ def test_kettle_reboiler_row():
     for item in ("heat_exchanger_floating_head", "reboiler_kettle"):
         assert (table[item]["b1"], table[item]["b2"]) == (1.63, 1.66)
         assert table[item]["source"] and table[item]["material"]["source"] and table[item]["pressure"]["source"]
+
+
+def test_cooling_water_must_be_liquid():
+    with pytest.raises(ValueError, match="boils"):
+        exchangers.water_heat_capacity(380.0)
+    assert float(exchangers.water_heat_capacity(380.0, 5.0e5)) > 4000.0
