@@ -11,9 +11,15 @@ straight and the Kremser relations hold:
 * van 't Hoff temperature dependence (:func:`henry_at_temperature`,
   :func:`van_t_hoff_slope`, :func:`slope_from_two_points`);
 * total-pressure dependence (:func:`k_at_pressure`);
-* a check that the streams really are dilute (:func:`dilute_warnings`).
+* a check that the streams really are dilute (:func:`dilute_warnings`);
+* beyond the dilute limit, the curved equilibrium line of a constant K on
+  the solute-free (mole-ratio) basis (:func:`gas_ratio_at_equilibrium`,
+  :func:`liquid_ratio_at_equilibrium`);
+* vapour pressure of a pure liquid by CAS number from tabulated DIPPR-101
+  coefficients (:func:`vapour_pressure_dippr101`).
 
-SI throughout: Pa (absolute), K, mol/m3, kg/mol, J/mol.
+SI throughout: Pa (absolute), K, mol/m3, kg/mol, J/mol. Mole ratios are mol
+of solute per mol of solute-free phase [-].
 """
 
 from __future__ import annotations
@@ -603,3 +609,190 @@ def dilute_warnings(
                 "dilute streams with constant gas and liquid flows"
             )
     return messages
+
+
+# ---------------------------------------------------------------------------
+# beyond the dilute limit: the equilibrium line on the mole-ratio basis
+# ---------------------------------------------------------------------------
+
+
+def _ratio_inputs(ratio, k_value, what):
+    ratio = np.asarray(ratio, dtype=float)
+    k_value = np.asarray(k_value, dtype=float)
+    if np.any(~(k_value > 0.0)):
+        raise ValueError(f"the equilibrium ratio K must be > 0, got {k_value[~(k_value > 0.0)].ravel()[0]:.6g}")
+    if np.any(np.isnan(ratio)) or np.any(ratio < 0.0):
+        raise ValueError(f"the {what} mole ratio must be >= 0")
+    ratio, k_value = np.broadcast_arrays(ratio, k_value)
+    return ratio, k_value
+
+
+def gas_ratio_at_equilibrium(liquid_ratio, k_value):
+    r"""Gas mole ratio in equilibrium with a liquid mole ratio, for a constant K.
+
+    With y = K x in mole fractions and X = x / (1 - x), Y = y / (1 - y)
+    (mol solute per mol solute-free phase):
+
+        Y* = K X / (1 + (1 - K) X)
+
+    the curve ``Y* / (1 + Y*) = K X / (1 + X)``. It bends down (concave) for
+    K < 1, up (convex) for K > 1, and is straight only for K = 1.
+
+    Parameters
+    ----------
+    liquid_ratio : array_like
+        Liquid mole ratio X [mol solute / mol solute-free liquid], >= 0.
+    k_value : array_like
+        Equilibrium ratio K = y / x in mole fractions [-], > 0, constant along
+        the column (Henry's law K = H / P, Raoult's law K = gamma Psat / P:
+        :func:`k_from_henry`, :func:`k_from_vapour_pressure`).
+
+    Returns
+    -------
+    ndarray
+        Y* [mol solute / mol solute-free gas]; inf where K x >= 1 (the gas
+        in equilibrium would be pure solute, X >= 1 / (K - 1) with K > 1).
+
+    Notes
+    -----
+    Exact transformation of y = K x; what it inherits from K is the range of
+    Henry's or Raoult's law itself (ideal gas, constant K over the
+    concentration range). Source: Treybal, Mass-Transfer Operations, 3rd ed.
+    (1980), Illustration 8.2, where the wash-oil equilibrium curve is drawn
+    in these coordinates from y* = (p* / P) x.
+
+    Examples
+    --------
+    >>> round(float(gas_ratio_at_equilibrium(0.25, 0.5)), 12)     # x = 0.2, y = 0.1
+    0.111111111111
+    """
+    liquid_ratio, k_value = _ratio_inputs(liquid_ratio, k_value, "liquid")
+    return _gas_ratio_curve(liquid_ratio, k_value)
+
+
+def _gas_ratio_curve(liquid_ratio, k_value):
+    """Y* = K X / (1 + (1 - K) X) for float arrays X >= 0, K > 0 (no checks; inf past y = 1)."""
+    denominator = 1.0 + (1.0 - k_value) * liquid_ratio
+    finite = np.isfinite(liquid_ratio) & (denominator > 0.0)
+    safe = np.where(finite, denominator, 1.0)
+    gas = np.where(finite, k_value * np.where(finite, liquid_ratio, 0.0) / safe, np.inf)
+    # X = inf with K < 1: y -> K, Y* -> K / (1 - K)
+    limit = np.isinf(liquid_ratio) & (k_value < 1.0)
+    return np.where(limit, k_value / np.where(limit, 1.0 - k_value, 1.0), gas)
+
+
+def liquid_ratio_at_equilibrium(gas_ratio, k_value):
+    r"""Liquid mole ratio in equilibrium with a gas mole ratio, for a constant K.
+
+    Inverse of :func:`gas_ratio_at_equilibrium`:
+
+        X* = Y / (K - (1 - K) Y) = Y / (K (1 + Y) - Y)
+
+    Parameters
+    ----------
+    gas_ratio : array_like
+        Gas mole ratio Y [mol solute / mol solute-free gas], >= 0.
+    k_value : array_like
+        Equilibrium ratio K = y / x in mole fractions [-], > 0.
+
+    Returns
+    -------
+    ndarray
+        X* [mol solute / mol solute-free liquid]; inf where y >= K (K < 1,
+        Y >= K / (1 - K)): no liquid of that solute can be in equilibrium
+        with so rich a gas, the solute would condense.
+
+    Notes
+    -----
+    Source: as :func:`gas_ratio_at_equilibrium` (Treybal, Mass-Transfer
+    Operations, 3rd ed., Illustration 8.2).
+
+    Examples
+    --------
+    >>> round(float(liquid_ratio_at_equilibrium(1.0 / 9.0, 0.5)), 12)
+    0.25
+    """
+    gas_ratio, k_value = _ratio_inputs(gas_ratio, k_value, "gas")
+    return _liquid_ratio_curve(gas_ratio, k_value)
+
+
+def _liquid_ratio_curve(gas_ratio, k_value):
+    """X* = Y / (K - (1 - K) Y) for float arrays Y >= 0, K > 0 (no checks; inf past y = K)."""
+    finite = np.isfinite(gas_ratio)
+    gas = np.where(finite, gas_ratio, 0.0)
+    denominator = k_value - (1.0 - k_value) * gas
+    inside = finite & (denominator > 0.0)
+    liquid = np.where(inside, gas / np.where(inside, denominator, 1.0), np.inf)
+    # Y = inf with K > 1: x -> 1 / K, X* -> 1 / (K - 1)
+    limit = ~finite & (k_value > 1.0)
+    return np.where(limit, 1.0 / np.where(limit, k_value - 1.0, 1.0), liquid)
+
+
+# ---------------------------------------------------------------------------
+# vapour pressure by CAS number
+# ---------------------------------------------------------------------------
+
+
+def _perry_coefficients(cas: str):
+    from chemicals.vapor_pressure import Psat_data_Perrys2_8
+
+    try:
+        row = Psat_data_Perrys2_8.loc[cas]
+    except KeyError:
+        raise ValueError(
+            f"no DIPPR-101 vapour-pressure coefficients for CAS {cas!r} in Perry's Table 2-8 "
+            "(as shipped by the chemicals package); give the vapour pressure directly"
+        ) from None
+    return (float(row["C1"]), float(row["C2"]), float(row["C3"]), float(row["C4"]), float(row["C5"]),
+            float(row["Tmin"]), float(row["Tmax"]), str(row["Chemical"]).strip())
+
+
+def vapour_pressure_dippr101(cas: str, temperature, *, warnings: list[str] | None = None):
+    r"""Vapour pressure of a pure liquid from the DIPPR-101 equation and its tabulated coefficients.
+
+        Psat = exp(C1 + C2 / T + C3 ln T + C4 T**C5)
+
+    with C1..C5 and the fitted range Tmin..Tmax of the compound read by CAS
+    number from Perry's Table 2-8, as shipped with the ``chemicals`` package
+    (``chemicals.vapor_pressure.Psat_data_Perrys2_8``).
+
+    Parameters
+    ----------
+    cas : str
+        CAS registry number, e.g. '71-43-2' (benzene), '7732-18-5' (water).
+    temperature : array_like
+        Temperature T [K], > 0.
+    warnings : list of str, optional
+        Receives a message if a temperature is outside the fitted range.
+
+    Returns
+    -------
+    ndarray
+        Psat [Pa].
+
+    Raises
+    ------
+    ValueError
+        If the compound has no row in the table.
+
+    Notes
+    -----
+    Source: Green and Perry, Perry's Chemical Engineers' Handbook, 8th ed.
+    (2008), Table 2-8 (DIPPR correlation 101), coefficients as distributed
+    with chemicals 1.x; evaluated vectorized here, checked against
+    ``chemicals.dippr.EQ101``.
+
+    Examples
+    --------
+    Benzene at its normal boiling point, 353.24 K:
+
+    >>> round(float(vapour_pressure_dippr101("71-43-2", 353.24)) / 1000.0, 1)
+    101.2
+    """
+    c1, c2, c3, c4, c5, t_min, t_max, name = _perry_coefficients(cas)
+    temperature = np.asarray(temperature, dtype=float)
+    if np.any(~(temperature > 0.0)):
+        raise ValueError("temperature must be > 0 K")
+    check_range(f"temperature for the vapour pressure of {name}", temperature, t_min, t_max, "K",
+                "Perry's Table 2-8 DIPPR-101 fit", warnings)
+    return np.exp(c1 + c2 / temperature + c3 * np.log(temperature) + c4 * temperature**c5)

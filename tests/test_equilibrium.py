@@ -252,3 +252,95 @@ def test_liquid_flow_change_warns():
     messages = dilute_warnings(0.005, 0.0001, 0.0, 0.06, max_mole_fraction=0.1)
     assert len(messages) == 1
     assert messages[0].startswith("liquid flow changes by 6.38%")
+
+
+# ---------------------------------------------------------------------------
+# the equilibrium line on the mole-ratio basis
+# ---------------------------------------------------------------------------
+
+from towercost.models.equilibrium import (  # noqa: E402
+    gas_ratio_at_equilibrium,
+    liquid_ratio_at_equilibrium,
+    vapour_pressure_dippr101,
+)
+
+
+@settings(max_examples=100, deadline=None)
+@given(
+    liquid_fraction=st.floats(0.0, 0.95),
+    k_value=st.floats(0.01, 100.0),
+)
+def test_ratio_curve_is_y_equals_k_x_in_fractions(liquid_fraction, k_value):
+    # Independent method: the definition y = K x with X = x / (1 - x), Y = y / (1 - y).
+    gas_fraction = k_value * liquid_fraction
+    if gas_fraction >= 0.999:
+        return
+    liquid_ratio = liquid_fraction / (1.0 - liquid_fraction)
+    gas_ratio = float(gas_ratio_at_equilibrium(liquid_ratio, k_value))
+    assert gas_ratio == pytest.approx(gas_fraction / (1.0 - gas_fraction), rel=1e-12, abs=1e-300)
+    assert float(liquid_ratio_at_equilibrium(gas_ratio, k_value)) == pytest.approx(liquid_ratio, rel=1e-10,
+                                                                                  abs=1e-300)
+
+
+def test_ratio_curve_treybal_wash_oil_point():
+    # Source: Treybal, Mass-Transfer Operations, 3rd ed., Illustration 8.2 (as transcribed): the
+    # curve Y*/(1 + Y*) = (p*/P) X/(1 + X) with p* = 13.33 kN/m2, P = 1.07e5 N/m2. Hand evaluation
+    # at X = 0.1: x = 1/11, y = 0.124579 / 11 = 0.0113253, Y = 0.0114551.
+    k = 13.33e3 / 1.07e5
+    assert float(gas_ratio_at_equilibrium(0.1, k)) == pytest.approx(0.0114551, rel=1e-5)
+
+
+def test_ratio_curve_limits():
+    # A liquid with K x >= 1 or a gas with y >= K (K < 1) has no equilibrium partner: inf.
+    assert np.isinf(gas_ratio_at_equilibrium(1.0, 3.0))          # x = 0.5, K x = 1.5
+    assert np.isinf(liquid_ratio_at_equilibrium(0.5, 0.2))       # y = 1/3 > K
+    assert float(gas_ratio_at_equilibrium(np.inf, 0.5)) == pytest.approx(1.0)     # y -> K
+    assert float(liquid_ratio_at_equilibrium(np.inf, 3.0)) == pytest.approx(0.5)   # x -> 1/K
+    with pytest.raises(ValueError, match="K must be > 0"):
+        gas_ratio_at_equilibrium(0.1, 0.0)
+    with pytest.raises(ValueError, match="mole ratio"):
+        liquid_ratio_at_equilibrium(-0.1, 1.0)
+    assert gas_ratio_at_equilibrium([[0.1, 0.2]], [[0.5], [2.0]]).shape == (2, 2)
+
+
+# ---------------------------------------------------------------------------
+# vapour pressure by CAS number
+# ---------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize("cas", ["71-43-2", "7732-18-5", "108-88-3", "64-17-5", "112-40-3", "107-21-1"])
+def test_vapour_pressure_matches_chemicals_dippr_101(cas):
+    # Reference library: chemicals.dippr.EQ101 with the same Perry's Table 2-8 row (chemicals 1.x).
+    from chemicals.dippr import EQ101
+    from chemicals.vapor_pressure import Psat_data_Perrys2_8
+
+    row = Psat_data_Perrys2_8.loc[cas]
+    temperatures = np.linspace(row["Tmin"], row["Tmax"], 7)
+    got = vapour_pressure_dippr101(cas, temperatures)
+    expected = [EQ101(t, row["C1"], row["C2"], row["C3"], row["C4"], row["C5"]) for t in temperatures]
+    assert np.allclose(got, expected, rtol=1e-12, atol=0.0)
+
+
+def test_vapour_pressure_against_treybal_benzene():
+    # Source: Treybal, Mass-Transfer Operations, 3rd ed., Illustration 8.2 (as transcribed): benzene
+    # vapour pressure 13.33 kN/m2 at 26 C and 319.9 kN/m2 at 122 C. Measured with Perry's
+    # coefficients: 13.24 (-0.7 %) and 314.2 kN/m2 (-1.8 %).
+    got = vapour_pressure_dippr101("71-43-2", [299.15, 395.15])
+    assert got[0] == pytest.approx(13.33e3, rel=0.01)
+    assert got[1] == pytest.approx(319.9e3, rel=0.02)
+
+
+def test_vapour_pressure_of_water_at_the_normal_boiling_point():
+    # Source: IAPWS-95 (Wagner and Pruss 2002) as implemented in chemicals.iapws.iapws95_Psat:
+    # 101.418 kPa at 373.15 K; Perry's DIPPR-101 fit reproduces it within 0.2 %.
+    from chemicals.iapws import iapws95_Psat
+
+    assert float(vapour_pressure_dippr101("7732-18-5", 373.15)) == pytest.approx(iapws95_Psat(373.15), rel=2e-3)
+
+
+def test_vapour_pressure_range_and_unknown_compound():
+    warnings: list[str] = []
+    value = vapour_pressure_dippr101("71-43-2", 250.0, warnings=warnings)
+    assert np.isfinite(value) and len(warnings) == 1 and "Benzene" in warnings[0]
+    with pytest.raises(ValueError, match="no DIPPR-101"):
+        vapour_pressure_dippr101("0-00-0", 300.0)
