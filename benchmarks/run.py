@@ -7,6 +7,7 @@ The modules (each also runs alone and prints its own rows):
   bench_evaluate   exact evaluation of 10**5 designs and of a 2.4 M space; one-design CLI commands
   bench_optimizer  space, model, scan, in-process and whole-process model/scan ratios, a plain loop
   bench_scaling    10**3 to 10**7 alternatives: model and scan time, their ratio, peak memory
+  bench_site       a four-unit site's joint choice; a batch of 100 scenarios with 1 and 2 workers
 
 Figures are wall-clock seconds (time.perf_counter): best of several calls
 where a call is cheap, medians of alternating runs where two things are
@@ -29,8 +30,9 @@ import bench_evaluate  # noqa: E402
 import bench_kremser  # noqa: E402
 import bench_optimizer  # noqa: E402
 import bench_scaling  # noqa: E402
+import bench_site  # noqa: E402
 
-MODULES = (bench_kremser, bench_evaluate, bench_optimizer, bench_scaling)
+MODULES = (bench_kremser, bench_evaluate, bench_optimizer, bench_scaling, bench_site)
 
 
 def cpu_model() -> str:

@@ -86,8 +86,8 @@ def _load(path: Path):
     return _run(lambda: load_scenario(path))
 
 
-def _progress():
-    """A progress callback for long evaluations: a rich bar on stderr once a run passes about a second."""
+def _progress(what: str = "evaluating alternatives"):
+    """A progress callback for long runs: a rich bar on stderr once a run passes about a second."""
     import time
 
     state: dict = {"start": time.perf_counter(), "bar": None}
@@ -99,7 +99,7 @@ def _progress():
             from rich.console import Console
             from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
 
-            bar = Progress(TextColumn("evaluating alternatives"), BarColumn(), TextColumn("{task.completed:,}"),
+            bar = Progress(TextColumn(what), BarColumn(), TextColumn("{task.completed:,}"),
                            TimeRemainingColumn(), console=Console(stderr=True), transient=True)
             bar.start()
             state["bar"], state["task"] = bar, bar.add_task("space", total=total)
@@ -292,6 +292,81 @@ def curve(
     data = _load(scenario)
     result = _run(lambda: ranking.cost_curve(data, solvent))
     terminal.print_curve(terminal.console(), result)
+
+
+@app.command()
+def site(
+    sitefile: Path = typer.Argument(..., help="Site file (TOML): units, shared limits, linking rules."),
+    top: int = typer.Option(5, "--top", min=1, max=100, help="How many joint choices to rank."),
+    as_json: bool = typer.Option(False, "--json", help="Print one JSON object instead of tables."),
+    csv: bool = typer.Option(False, "--csv", help="Write the joint choices as CSV into the output folder."),
+    out: Path = typer.Option(DEFAULT_OUT, "--out", help="Output folder for --csv."),
+    force: bool = typer.Option(False, "--force", help="Replace files that already exist."),
+) -> None:
+    """Choose one design per unit of a site together, under shared budgets and utilities."""
+    from towercost.report import files, records, site as site_report, terminal
+    from towercost.scenario.site import load_site
+    from towercost.select.site import optimize_site
+
+    spec = _run(lambda: load_site(sitefile))
+    result = _run(lambda: optimize_site(spec, top=top), out)
+    if csv:
+        rows = []
+        for rank, portfolio in enumerate(result.portfolios, start=1):
+            for name, space, d in zip(result.units, result.spaces, portfolio.designs):
+                rows.append(f"{rank},{_csv_text(name)},{_csv_text(space.case.agents[int(d.agent[0])])},"
+                            f"{int(d.trays[0])},{d.ratio[0]!r},{d.diameter[0]!r},{d.installed[0]!r},"
+                            f"{d.annualized[0]!r},{portfolio.annualized!r}")
+        text = "rank,unit,candidate,trays,ratio_to_minimum,diameter_m,installed_USD,annualized_USD_yr," \
+               "site_annualized_USD_yr\n" + "\n".join(rows) + "\n"
+        written = _run(lambda: files.write_new(out / f"{sitefile.stem}-site.csv", text, force=force), out)
+    if as_json:
+        typer.echo(records.to_json(site_report.site_record(result)))
+        return
+    console = terminal.console()
+    site_report.print_site(console, result)
+    if csv:
+        console.print(f"wrote {written}", highlight=False)
+
+
+def _csv_text(value: str) -> str:
+    """A CSV field: quoted, and neutralised if a spreadsheet would read it as a formula."""
+    text = str(value)
+    if text[:1] in ("=", "+", "-", "@"):
+        text = "'" + text
+    return '"' + text.replace('"', '""') + '"'
+
+
+@app.command()
+def batch(
+    inputs: list[str] = typer.Argument(..., help="Folders (their *.toml), glob patterns or files: scenarios or sites."),
+    workers: int = typer.Option(1, "--workers", min=1, max=64, help="Local worker processes."),
+    cluster: Optional[str] = typer.Option(None, "--cluster", help="Address of a Dask distributed scheduler to use "
+                                          "instead of local workers, e.g. tcp://10.0.0.5:8786."),
+    out: Path = typer.Option(DEFAULT_OUT, "--out", help="Output folder for the results and the summary."),
+    top: int = typer.Option(5, "--top", min=1, max=100, help="Designs (or joint choices) ranked per file."),
+    force: bool = typer.Option(False, "--force", help="Recompute files whose result exists, and replace it."),
+) -> None:
+    """Optimize many scenario or site files; each result is written as it finishes; failures are listed."""
+    import datetime
+
+    from towercost.report import files, terminal
+    from towercost.select.batch import files_of, run_batch, summary_frame
+
+    if cluster is not None:
+        try:
+            import distributed  # noqa: F401
+        except ImportError:
+            _fail("--cluster needs the Dask 'distributed' package: pip install 'towercost[cluster]'")
+    paths = files_of(inputs)
+    if not paths:
+        _fail(f"no scenario or site files in {' '.join(inputs)!r}")
+    entries = _run(lambda: run_batch(paths, out, workers=workers, cluster=cluster, force=force, top=top,
+                                     progress=_progress("files")), out)
+    frame = summary_frame(entries)
+    stamp = datetime.datetime.now().strftime("%Y%m%d-%H%M%S")
+    summary = _run(lambda: files.write_new(out / f"batch-summary-{stamp}.csv", frame.to_csv(index=False)), out)
+    terminal.print_batch(terminal.console(), entries, summary)
 
 
 @app.command()

@@ -195,3 +195,17 @@ def print_cascade(console: Console, record: dict, absorb: bool) -> None:
         console.print(f"  {k:<{width}}  {v}", highlight=False)
     if record["gas_out"] is None or record["liquid_out"] is None:
         console.print("  [dim]give --k-value for the other stream's outlet[/dim]")
+
+
+def print_batch(console: Console, entries, summary) -> None:
+    """One line per file of a batch, failures with their reason, and where the summary went."""
+    from rich.markup import escape
+
+    t = _table("Batch", "file", "status", "best", "total kUSD/yr", right=(3,))
+    for e in entries:
+        cost = "" if e.annualized is None else f"{e.annualized / 1e3:,.1f}"
+        t.add_row(escape(e.path), e.status, escape(e.best or e.reason), cost)
+    console.print(t)
+    failed = [e for e in entries if e.status not in ("done", "done earlier")]
+    ok = len(entries) - len(failed)
+    console.print(f"{ok} of {len(entries)} files done, {len(failed)} failed; summary: {summary}", highlight=False)

@@ -74,9 +74,9 @@ def _models_in(annotation) -> list[type[BaseModel]]:
     return found
 
 
-def _known_keys(path: tuple) -> list[str]:
+def _known_keys(path: tuple, root: type[BaseModel] = Scenario) -> list[str]:
     """The keys allowed beside the unknown key at the end of ``path``."""
-    models: list[type[BaseModel]] = [Scenario]
+    models: list[type[BaseModel]] = [root]
     for key in path[:-1]:
         if isinstance(key, int):
             continue
@@ -97,7 +97,7 @@ def _known_keys(path: tuple) -> list[str]:
     return keys
 
 
-def one_line(path: str, error: dict, data: Any) -> str:
+def one_line(path: str, error: dict, data: Any, root: type[BaseModel] = Scenario) -> str:
     """One pydantic error as one line: file, field, what is wrong, the value written."""
     keys, exists = _user_path(data, tuple(error["loc"]))
     where = _location(data, keys)
@@ -105,7 +105,7 @@ def one_line(path: str, error: dict, data: Any) -> str:
     kind = error["type"]
     if kind == "extra_forbidden":
         key = str(keys[-1])
-        known = _known_keys(keys)
+        known = _known_keys(keys, root)
         near = difflib.get_close_matches(key, known, n=1)
         hint = f"; did you mean {near[0]!r}?" if near else (f"; allowed: {', '.join(known)}" if known else "")
         return f"{prefix}: unknown key{hint}"
@@ -117,11 +117,11 @@ def one_line(path: str, error: dict, data: Any) -> str:
     return f"{prefix}: {message}{shown}"
 
 
-def relevance(error: dict, data: Any) -> tuple:
+def relevance(error: dict, data: Any, root: type[BaseModel] = Scenario) -> tuple:
     """Rank errors: about a value the user wrote, deepest first; unknown keys next; missing last."""
     keys, exists = _user_path(data, tuple(error["loc"]))
     kind = {"extra_forbidden": 1.0, "missing": 0.0}.get(error["type"], 2.0)
-    if error["type"] == "extra_forbidden" and keys and keys[-1] in _known_keys(keys):
+    if error["type"] == "extra_forbidden" and keys and keys[-1] in _known_keys(keys, root):
         kind = 0.5  # a key that another form of the same value allows
     return (exists, len(keys) if exists else 0, kind)
 

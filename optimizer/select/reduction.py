@@ -10,16 +10,17 @@ alternatives keeps the model's top ``keep`` exact.
 With no shared resource that leaves the first ``keep`` in tie order. With
 one, the first ``keep`` Pareto layers of (cost, use) are kept: every member
 of layer L has a dominator in each earlier layer, so anything outside the
-first ``keep`` layers has at least ``keep`` dominators. With several, an
-alternative is dropped when ``keep`` of the cheapest alternatives (the
-anchors) dominate it; that is sound, if less thorough.
+first ``keep`` layers has at least ``keep`` dominators. With several, the
+dominators of each alternative are counted among all cheaper ones (first
+against the cheapest ``ANCHORS``, which settle most, then slice by slice for
+the rest), and exactly those with ``keep`` or more are dropped.
 """
 
 from __future__ import annotations
 
 import numpy as np
 
-#: How many of the cheapest alternatives are tried as dominators when there are several resources.
+#: How many of the cheapest alternatives are tried first as dominators when there are several resources.
 ANCHORS = 256
 
 
@@ -38,17 +39,38 @@ def _layers(use: np.ndarray, keep: int) -> np.ndarray:
     return np.sort(np.concatenate(kept)) if kept else np.zeros(0, int)
 
 
-def _anchored(use: np.ndarray, keep: int, block: int = 2048) -> np.ndarray:
-    """Positions (in cost order) with fewer than ``keep`` dominators among the first ``ANCHORS``."""
-    anchors = use[:ANCHORS]                                   # (A, R)
-    kept = []
-    for start in range(0, use.shape[0], block):
-        rows = use[start:start + block]                       # (b, R)
-        dominated = np.all(anchors[None, :, :] <= rows[:, None, :], axis=2)    # (b, A)
-        earlier = np.arange(anchors.shape[0])[None, :] < np.arange(start, start + rows.shape[0])[:, None]
-        count = np.count_nonzero(dominated & earlier, axis=1)
-        kept.append(start + np.flatnonzero(count < keep))
-    return np.concatenate(kept)
+def _dominators(use: np.ndarray, positions: np.ndarray, anchors: np.ndarray, block: int = 1024) -> np.ndarray:
+    """For each of ``positions``, how many of ``anchors`` (positions too) come earlier and use no more of anything."""
+    count = np.zeros(positions.size, int)
+    columns = [use[anchors, r] for r in range(use.shape[1])]
+    for start in range(0, positions.size, block):
+        rows = positions[start:start + block]
+        dominated = anchors[None, :] < rows[:, None]                                # (b, A): earlier in order
+        for r, anchor_use in enumerate(columns):
+            dominated &= anchor_use[None, :] <= use[rows, r][:, None]               # and no more of resource r
+        count[start:start + block] = np.count_nonzero(dominated, axis=1)
+    return count
+
+
+def _exact_count(use: np.ndarray, keep: int) -> np.ndarray:
+    """Positions (in cost order) with fewer than ``keep`` dominators among all earlier positions.
+
+    Tried first against the ``ANCHORS`` cheapest, which settle most; the rest
+    are counted against every earlier position, in slices.
+    """
+    n = use.shape[0]
+    positions = np.arange(n)
+    count = _dominators(use, positions, positions[:ANCHORS])
+    open_ = positions[(count < keep) & (positions > ANCHORS)]
+    for start in range(ANCHORS, n, 4 * ANCHORS):           # the later anchors, slice by slice
+        if open_.size == 0:
+            break
+        anchors = positions[start:start + 4 * ANCHORS]
+        later = open_[open_ > anchors[0]]
+        if later.size:
+            count[later] += _dominators(use, later, anchors)
+        open_ = open_[count[open_] < keep]
+    return positions[count < keep]
 
 
 def undominated(cost: np.ndarray, rank: np.ndarray, usage: dict[str, np.ndarray], keep: int) -> np.ndarray:
@@ -65,4 +87,4 @@ def undominated(cost: np.ndarray, rank: np.ndarray, usage: dict[str, np.ndarray]
     use = np.stack([np.asarray(usage[name], dtype=float)[order] for name in sorted(usage)], axis=1)
     if use.shape[1] == 1:
         return order[_layers(use[:, 0], keep)]
-    return order[_anchored(use, keep)]
+    return order[_exact_count(use, keep)]

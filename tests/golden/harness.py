@@ -1,7 +1,8 @@
 """The golden-output harness: the CLI runs whose outputs are kept as a regression record.
 
 ``cases()`` lists every run (optimize --json, evaluate --json, curve and
-rate --json on every bundled scenario and test file); ``run_case`` runs one
+rate --json on every bundled scenario and test file; site --json on every
+bundled site file); ``run_case`` runs one
 in-process through typer's CliRunner and returns its exit code and output,
 normalised so that only what a change of behaviour would alter remains.
 
@@ -76,7 +77,10 @@ def cases() -> dict[str, list[str]]:
     runs = {}
     for path in SCENARIOS:
         rel = path.relative_to(ROOT)
-        runs[f"{path.stem}-optimize"] = ["optimize", str(rel), "--json"]
+        if "[site]" in path.read_text(encoding="utf-8"):
+            runs[f"{path.stem}-site"] = ["site", str(rel), "--json"]
+        else:
+            runs[f"{path.stem}-optimize"] = ["optimize", str(rel), "--json"]
     runs.update(RATE_RUNS)
     return runs
 
