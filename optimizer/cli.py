@@ -391,14 +391,63 @@ def optimize(
 def curve(
     scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
     solvent: str = typer.Option(..., "--solvent", help="Candidate name (solvent, or stripping gas)."),
+    plot: Optional[Path] = typer.Option(None, "--plot", help="Also draw the curves to this file (.png or .svg)."),
+    csv: bool = typer.Option(False, "--csv", help="Also write both curves as CSV into the output folder."),
+    out: Path = typer.Option(DEFAULT_OUT, "--out", help="Output folder for --csv."),
+    force: bool = typer.Option(False, "--force", help="Replace files that already exist."),
 ) -> None:
     """Annualized cost of one candidate against trays and against the ratio to the minimum."""
     from towercost.report import terminal
     from towercost.select import ranking
 
     data = _load(scenario)
+    if plot is not None and plot.suffix.lower() not in (".png", ".svg"):
+        _fail(f"--plot {plot}: a plot is written as .png or .svg (by the file's extension)")
     result = _run(lambda: ranking.cost_curve(data, solvent))
     terminal.print_curve(terminal.console(), result)
+    if plot is not None:
+        from towercost.report import files, plots
+
+        image = plots.cost_curves([result], result.case.service.ratio_word, fmt=plot.suffix.lower()[1:])
+        typer.echo(f"wrote {_run(lambda: files.write_new(plot, image, force=force))}")
+    if csv:
+        from towercost.report import equipment, files, records
+        from towercost.report.ids import candidate_keys
+
+        rows = records.curve_rows(result)
+        name = f"{scenario.stem}-{candidate_keys(result.case.agents)[solvent]}-curve.csv"
+        typer.echo(f"wrote {_run(lambda: files.write_new(out / name, equipment.csv_text(rows), force=force), out)}")
+
+
+@app.command()
+def report(
+    scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
+    out: Optional[Path] = typer.Option(None, "--out", help="The report file: .html (one self-contained file) or "
+                                       ".md (Markdown); default reports/SCENARIO-report.html."),
+    top: int = typer.Option(10, "--top", min=1, max=200, help="How many distinct designs to rank."),
+    method: Method = typer.Option(Method.model, "--method", help="model (Pyomo + HiGHS) or scan (every alternative)."),
+    distinct: Distinct = typer.Option(Distinct.trays, "--distinct", help="What counts as a distinct design: trays, "
+                                      "variant or candidate (as for optimize)."),
+    force: bool = typer.Option(False, "--force", help="Replace the file if it exists."),
+) -> None:
+    """Write the design report: case, best design, alternatives, band, plots, equipment, utilities, references."""
+    import time
+
+    from towercost.report import files, html
+    from towercost.select import ranking
+
+    target = out if out is not None else DEFAULT_OUT / f"{scenario.stem}-report.html"
+    fmt = html.FORMATS.get(target.suffix.lower())
+    if fmt is None:
+        _fail(f"--out {target}: a report is written as .html or .md (by the file's extension)")
+    start = time.perf_counter()
+    data = _load(scenario)
+    folder = target.parent
+    result = _run(lambda: ranking.optimize(data, top=top, method=method.value, distinct=distinct.value,
+                                           progress=_progress()), folder)
+    text = _run(lambda: html.report_text(data, result, fmt, source=str(scenario)), folder)
+    written = _run(lambda: files.write_new(target, text, force=force), folder)
+    typer.echo(f"wrote {written} ({len(text.encode('utf-8')) / 1024:,.0f} KiB) in {time.perf_counter() - start:.2f} s")
 
 
 @app.command()

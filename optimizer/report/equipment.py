@@ -112,7 +112,7 @@ def _basis_note(correlation: str) -> str:
 
 
 def equipment_list(case, d, i: int = 0, design_id: str | None = None) -> list[dict]:
-    """One row per equipment item of design ``i`` (see ``COLUMNS``); costs at the estimate's index [USD]."""
+    """One row per equipment item of design ``i`` (see ``COLUMNS``); costs at the estimate's index [USD], to the cent."""
     from towercost.report.ids import design_id as name_of
 
     if design_id is None:
@@ -138,8 +138,21 @@ def equipment_list(case, d, i: int = 0, design_id: str | None = None) -> list[di
         })
         if kind in DETAILS:
             row.update(DETAILS[kind](case, d, i))
-        rows.append(row)
+        rows.append({k: _tidy(k, v) for k, v in row.items()})
     return rows
+
+
+#: Significant digits kept of a figure in the list: every file format then holds the very same number.
+DIGITS = 12
+
+
+def _tidy(key: str, value):
+    """Costs to the cent, other figures to ``DIGITS`` significant digits (spreadsheets keep 15 or 16)."""
+    if isinstance(value, bool) or not isinstance(value, float) or not math.isfinite(value):
+        return value
+    if key.endswith("_USD"):
+        return round(value, 2)
+    return float(f"{value:.{DIGITS}g}")
 
 
 def ranked_rows(result) -> list[dict]:

@@ -335,6 +335,18 @@ def alternatives_frame(result):
     return pd.DataFrame(rows)
 
 
+def curve_rows(curve) -> list[dict]:
+    """A cost curve as flat rows: one per tray count (best rate at each), then one per ratio level."""
+    rows = []
+    for table, designs in (("by_trays", curve.by_trays), ("by_ratio", curve.by_ratio)):
+        for i in range(len(designs)):
+            rows.append({"curve": table, "agent": curve.agent, "trays": int(designs.trays[i]),
+                         "ratio_to_minimum": float(designs.ratio[i]), "rate_mol_s": float(designs.rate[i]),
+                         "diameter_m": float(designs.diameter[i]), "installed_USD": float(designs.installed[i]),
+                         "annualized_USD_yr": float(designs.annualized[i])})
+    return rows
+
+
 def to_json(record: dict) -> str:
     """One JSON text: non-finite numbers become null, numpy scalars plain numbers."""
     def clean(value):

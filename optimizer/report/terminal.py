@@ -25,7 +25,8 @@ def _factor_word(case) -> str:
 
 
 def _money(value: float) -> str:
-    return f"{value:,.0f}"
+    """Whole dollars with thousands separators; a value that rounds to zero prints as 0, never -0."""
+    return f"{round(float(value)) or 0:,.0f}"
 
 
 def _table(title: str, *columns: str, right: tuple[int, ...] = ()) -> Table:
