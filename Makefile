@@ -4,7 +4,7 @@ VENV   := .venv
 BIN    := $(VENV)/bin
 STAMP  := $(VENV)/.installed
 
-.PHONY: demo test bench clean
+.PHONY: demo test bench report-check clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -18,7 +18,11 @@ demo: $(STAMP)
 	$(BIN)/towercost optimize scenarios/demo_absorber.toml
 
 test: $(STAMP)
-	$(BIN)/python -m pytest -q models optimizer tests README.md
+	$(BIN)/python -m pytest -q -rs models optimizer tests README.md
+
+# The demo's HTML report in a real headless Chromium; its first screen saved to reports/ for a person to look at.
+report-check: $(STAMP)
+	$(BIN)/python tests/report_check.py
 
 bench: $(STAMP)
 	$(BIN)/python benchmarks/run.py

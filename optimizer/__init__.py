@@ -51,14 +51,16 @@ def from_dict(data: dict, name: str = "scenario"):
     return parse_scenario(data, name)
 
 
-def optimize(scenario, *, top: int = 10, method: str = "model"):
+def optimize(scenario, *, top: int = 10, method: str = "model", distinct: str = "trays"):
     """Rank the ``top`` best designs by total annualized cost; a ``Result`` with ``.designs`` and ``.to_frame()``.
 
-    ``scenario`` is a loaded scenario, a path, or a dict.
+    ``scenario`` is a loaded scenario, a path, or a dict. ``distinct``: "trays"
+    (one design per candidate and tray count, the default), "variant" (every
+    rate and diameter variant) or "candidate" (one design per candidate).
     """
     from towercost.select.ranking import optimize as _optimize
 
-    return _optimize(_as_scenario(scenario), top=top, method=method)
+    return _optimize(_as_scenario(scenario), top=top, method=method, distinct=distinct)
 
 
 def evaluate(scenario, solvent: str, trays: int, *, ratio: float | None = None, rate: float | None = None,

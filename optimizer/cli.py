@@ -38,6 +38,26 @@ class Method(str, Enum):
     scan = "scan"
 
 
+class Distinct(str, Enum):
+    trays = "trays"
+    variant = "variant"
+    candidate = "candidate"
+
+
+def _version(value: bool) -> None:
+    if value:
+        import towercost
+
+        typer.echo(f"towercost {towercost.__version__}")
+        raise typer.Exit()
+
+
+@app.callback()
+def _main(version: bool = typer.Option(False, "--version", callback=_version, is_eager=True,
+                                       help="Print the version and exit.")) -> None:
+    """Least-annualized-cost design of dilute absorbers and strippers (tray columns)."""
+
+
 def _fail(message: str, code: int = BAD_INPUT) -> None:
     typer.echo(f"error: {message}", err=True)
     raise typer.Exit(code)
@@ -204,41 +224,114 @@ def rate(
 # --------------------------------------------------------------------------- evaluate
 
 
+def _length(text: Optional[str], option: str) -> Optional[float]:
+    """A length option as text ("2.286", "90 in") in m; one-line error otherwise."""
+    if text is None:
+        return None
+    from towercost.scenario.units import UnitError, to_si
+
+    try:
+        value = to_si(text, "m", what=option)
+    except UnitError as exc:
+        _fail(str(exc))
+    if not (math.isfinite(value) and value > 0):
+        _fail(f"{option} must be a length > 0, got {text!r}")
+    return value
+
+
+def _design(data, design: str):
+    """The decisions an identifier names, checked against the scenario's candidates."""
+    from towercost.report import ids
+
+    return _run(lambda: ids.parse(design, [a.name for a in data.agents]))
+
+
 @app.command()
 def evaluate(
     scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
-    solvent: str = typer.Option(..., "--solvent", help="Candidate name (solvent, or stripping gas)."),
-    trays: int = typer.Option(..., "--trays", help="Real trays."),
+    design: Optional[str] = typer.Option(None, "--design", help="A design identifier from a ranking (reproduces "
+                                         "that design exactly); replaces --solvent, --trays, --rate/--ratio and "
+                                         "--diameter."),
+    solvent: Optional[str] = typer.Option(None, "--solvent", help="Candidate name (solvent, or stripping gas)."),
+    trays: Optional[int] = typer.Option(None, "--trays", help="Real trays."),
     ratio: Optional[float] = typer.Option(None, "--ratio", help="Agent rate as a multiple of the minimum (L/Lmin or G/Gmin)."),
     rate_: Optional[str] = typer.Option(None, "--rate", help="Agent molar rate, e.g. '95 kmol/h' (bare number: mol/s)."),
+    diameter: Optional[str] = typer.Option(None, "--diameter", help="Shell inside diameter, e.g. '2.286' (m) or "
+                                           "'90 in'; default: the least standard size."),
     as_json: bool = typer.Option(False, "--json", help="Print one JSON object."),
 ) -> None:
     """Evaluate one design exactly and print its design sheet."""
-    from towercost.report import records, terminal
+    from towercost.report import ratios, records, terminal
     from towercost.scenario.units import UnitError, to_si
     from towercost.select import ranking
 
     data = _load(scenario)
-    if trays < 1:
-        _fail(f"--trays must be a whole number >= 1, got {trays}")
-    if (ratio is None) == (rate_ is None):
-        _fail("give exactly one of --ratio and --rate")
-    _check("--ratio", ratio, 0.0, math.inf, "a number > 0")
     molar = None
-    if rate_ is not None:
-        try:
-            molar = to_si(rate_, "mol/s", what="--rate")
-        except UnitError as exc:
-            _fail(str(exc))
-        if not (math.isfinite(molar) and molar > 0):
-            _fail(f"--rate must be a flow > 0, got {rate_!r}")
-    case, designs, warnings = _run(lambda: ranking.evaluate_design(data, solvent, trays, ratio=ratio, rate=molar))
+    if design is not None:
+        given = [name for name, value in (("--solvent", solvent), ("--trays", trays), ("--ratio", ratio),
+                                          ("--rate", rate_), ("--diameter", diameter)) if value is not None]
+        if given:
+            _fail(f"--design names the whole design; give it without {', '.join(given)}")
+        named = _design(data, design)
+        solvent, trays, molar, shell = named.agent, named.trays, named.rate, named.diameter
+    else:
+        if solvent is None or trays is None:
+            _fail("give --design ID, or --solvent and --trays with --ratio or --rate")
+        if trays < 1:
+            _fail(f"--trays must be a whole number >= 1, got {trays}")
+        if (ratio is None) == (rate_ is None):
+            _fail("give exactly one of --ratio and --rate")
+        _check("--ratio", ratio, 0.0, math.inf, "a number > 0")
+        if rate_ is not None:
+            try:
+                molar = to_si(rate_, "mol/s", what="--rate")
+            except UnitError as exc:
+                _fail(str(exc))
+            if not (math.isfinite(molar) and molar > 0):
+                _fail(f"--rate must be a flow > 0, got {rate_!r}")
+        shell = _length(diameter, "--diameter")
+    case, designs, warnings = _run(lambda: ranking.evaluate_design(data, solvent, trays, ratio=ratio, rate=molar,
+                                                                   diameter=shell))
+    note = _run(lambda: ratios.miss_note(case, designs, ratio))
     if as_json:
-        record = records.design_record(case, designs)
-        record.update(warnings=warnings, caution=records.CAUTION)
+        record = records.design_record(case, designs, ratio_text=ratios.ratio_texts(case, designs)[0])
+        record.update(spec_note=note, warnings=warnings, scenario=records.conditions_record(case),
+                      economics=records.economics_record(case), tool=records.tool_record(),
+                      caution=records.CAUTION)
         typer.echo(records.to_json(record))
         return
-    terminal.print_design(terminal.console(), case, designs, warnings, f"{data.case.name}: design sheet")
+    terminal.print_design(terminal.console(), case, designs, warnings, f"{data.case.name}: design sheet", note)
+
+
+@app.command()
+def equipment(
+    scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
+    design: Optional[str] = typer.Option(None, "--design", help="A design identifier from a ranking; default: the "
+                                         "best design."),
+    out: Optional[Path] = typer.Option(None, "--out", help="Write the list to this file: .csv, .xlsx or .json."),
+    force: bool = typer.Option(False, "--force", help="Replace the file if it exists."),
+) -> None:
+    """The equipment list and utilities of one design: print them, or write them for an estimate."""
+    from towercost.report import equipment as eq
+    from towercost.report import terminal
+    from towercost.select import ranking
+
+    data = _load(scenario)
+    if out is not None and out.suffix.lower() not in eq.FORMATS:
+        _fail(f"--out {out}: the equipment list is written as .csv, .xlsx or .json (by the file's extension)")
+    if design is None:
+        result = _run(lambda: ranking.optimize(data, top=1, progress=_progress()))
+        case, designs = result.case, result.designs
+    else:
+        named = _design(data, design)
+        case, designs, _ = _run(lambda: ranking.evaluate_design(data, named.agent, named.trays, rate=named.rate,
+                                                                diameter=named.diameter))
+    rows = eq.equipment_list(case, designs)
+    if out is None:
+        terminal.print_equipment(terminal.console(), rows, eq.utilities(designs), f"{data.case.name}: equipment list")
+        return
+    written = _run(lambda: eq.write_table(out, rows, force=force))
+    typer.echo(f"wrote {written}")
 
 
 # --------------------------------------------------------------------------- optimize, curve, schema
@@ -249,49 +342,112 @@ def optimize(
     scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
     top: int = typer.Option(10, "--top", min=1, max=200, help="How many distinct designs to rank."),
     method: Method = typer.Option(Method.model, "--method", help="model (Pyomo + HiGHS) or scan (every alternative)."),
+    distinct: Distinct = typer.Option(Distinct.trays, "--distinct", help="What counts as a distinct design: trays "
+                                      "(one per candidate and tray count, at its best rate and diameter), variant "
+                                      "(every rate and diameter variant) or candidate (one per candidate)."),
     as_json: bool = typer.Option(False, "--json", help="Print one JSON object instead of tables."),
     csv: bool = typer.Option(False, "--csv", help="Write the ranked designs as CSV into the output folder."),
     save: bool = typer.Option(False, "--save", help="Write the JSON report into the output folder."),
+    equipment_file: Optional[Path] = typer.Option(None, "--equipment", help="Write the equipment list of every "
+                                                  "ranked design to this file (.csv, .xlsx or .json)."),
     out: Path = typer.Option(DEFAULT_OUT, "--out", help="Output folder for --csv and --save."),
     force: bool = typer.Option(False, "--force", help="Replace files that already exist."),
+    verbose: bool = typer.Option(False, "--verbose", help="Also print the solver's diagnostics and timings."),
 ) -> None:
     """Rank the designs of least total annualized cost: solvent, rate, trays and diameter."""
+    from towercost.report import equipment as eq
     from towercost.report import files, records, terminal
     from towercost.select import ranking
 
     data = _load(scenario)
-    result = _run(lambda: ranking.optimize(data, top=top, method=method.value, progress=_progress()), out)
-    record = records.result_record(result) if (as_json or save) else None
+    if equipment_file is not None and equipment_file.suffix.lower() not in eq.FORMATS:
+        _fail(f"--equipment {equipment_file}: the equipment list is written as .csv, .xlsx or .json "
+              "(by the file's extension)")
+    result = _run(lambda: ranking.optimize(data, top=top, method=method.value, distinct=distinct.value,
+                                           progress=_progress()), out)
+    record = records.result_record(result, verbose=verbose) if as_json else None
     written = []
     stem = scenario.stem
     if csv:
-        frame = records.alternatives_frame(result)
-        written.append(_run(lambda: files.write_new(out / f"{stem}-designs.csv", frame.to_csv(index=False),
-                                                    force=force), out))
+        text = eq.csv_text(records.alternatives_frame(result).to_dict("records"))
+        written.append(_run(lambda: files.write_new(out / f"{stem}-designs.csv", text, force=force), out))
     if save:
-        written.append(_run(lambda: files.write_new(out / f"{stem}-report.json", records.to_json(record),
+        saved = records.saved_report(records.result_record(result, verbose=True))
+        written.append(_run(lambda: files.write_new(out / f"{stem}-report.json", records.to_json(saved),
                                                     force=force), out))
+    if equipment_file is not None:
+        rows = eq.ranked_rows(result)
+        written.append(_run(lambda: eq.write_table(equipment_file, rows, force=force), out))
     if as_json:
         typer.echo(records.to_json(record))
     else:
         console = terminal.console()
-        terminal.print_ranking(console, result)
+        terminal.print_ranking(console, result, verbose=verbose)
         for path in written:
-            console.print(f"wrote {path}", highlight=False)
+            console.print(f"wrote {path}", markup=False, highlight=False)
 
 
 @app.command()
 def curve(
     scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
     solvent: str = typer.Option(..., "--solvent", help="Candidate name (solvent, or stripping gas)."),
+    plot: Optional[Path] = typer.Option(None, "--plot", help="Also draw the curves to this file (.png or .svg)."),
+    csv: bool = typer.Option(False, "--csv", help="Also write both curves as CSV into the output folder."),
+    out: Path = typer.Option(DEFAULT_OUT, "--out", help="Output folder for --csv."),
+    force: bool = typer.Option(False, "--force", help="Replace files that already exist."),
 ) -> None:
     """Annualized cost of one candidate against trays and against the ratio to the minimum."""
     from towercost.report import terminal
     from towercost.select import ranking
 
     data = _load(scenario)
+    if plot is not None and plot.suffix.lower() not in (".png", ".svg"):
+        _fail(f"--plot {plot}: a plot is written as .png or .svg (by the file's extension)")
     result = _run(lambda: ranking.cost_curve(data, solvent))
     terminal.print_curve(terminal.console(), result)
+    if plot is not None:
+        from towercost.report import files, plots
+
+        image = plots.cost_curves([result], result.case.service.ratio_word, fmt=plot.suffix.lower()[1:])
+        typer.echo(f"wrote {_run(lambda: files.write_new(plot, image, force=force))}")
+    if csv:
+        from towercost.report import equipment, files, records
+        from towercost.report.ids import candidate_keys
+
+        rows = records.curve_rows(result)
+        name = f"{scenario.stem}-{candidate_keys(result.case.agents)[solvent]}-curve.csv"
+        typer.echo(f"wrote {_run(lambda: files.write_new(out / name, equipment.csv_text(rows), force=force), out)}")
+
+
+@app.command()
+def report(
+    scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
+    out: Optional[Path] = typer.Option(None, "--out", help="The report file: .html (one self-contained file) or "
+                                       ".md (Markdown); default reports/SCENARIO-report.html."),
+    top: int = typer.Option(10, "--top", min=1, max=200, help="How many distinct designs to rank."),
+    method: Method = typer.Option(Method.model, "--method", help="model (Pyomo + HiGHS) or scan (every alternative)."),
+    distinct: Distinct = typer.Option(Distinct.trays, "--distinct", help="What counts as a distinct design: trays, "
+                                      "variant or candidate (as for optimize)."),
+    force: bool = typer.Option(False, "--force", help="Replace the file if it exists."),
+) -> None:
+    """Write the design report: case, best design, alternatives, band, plots, equipment, utilities, references."""
+    import time
+
+    from towercost.report import files, html
+    from towercost.select import ranking
+
+    target = out if out is not None else DEFAULT_OUT / f"{scenario.stem}-report.html"
+    fmt = html.FORMATS.get(target.suffix.lower())
+    if fmt is None:
+        _fail(f"--out {target}: a report is written as .html or .md (by the file's extension)")
+    start = time.perf_counter()
+    data = _load(scenario)
+    folder = target.parent
+    result = _run(lambda: ranking.optimize(data, top=top, method=method.value, distinct=distinct.value,
+                                           progress=_progress()), folder)
+    text = _run(lambda: html.report_text(data, result, fmt, source=str(scenario)), folder)
+    written = _run(lambda: files.write_new(target, text, force=force), folder)
+    typer.echo(f"wrote {written} ({len(text.encode('utf-8')) / 1024:,.0f} KiB) in {time.perf_counter() - start:.2f} s")
 
 
 @app.command()

@@ -296,6 +296,25 @@ def test_bundled_model_top10_equals_scan(bundled):
     assert best_model == best_of
 
 
+@pytest.mark.parametrize("distinct", ["trays", "candidate"])
+def test_bundled_distinct_model_equals_scan(bundled, distinct):
+    # Independent method: exhaustive enumeration, grouped here by plain Python over every feasible
+    # alternative in tie order: the first alternative of each group, groups in order of their first.
+    _, space = bundled
+    groups = ranking.listing_groups(space, distinct)
+    order_model, best_model, figures = ranking.select_by_model(space, 10, groups)
+    order_scan, best_scan = scan(space, 10, groups)
+    leaders = {}
+    for i in space.tie_order(np.flatnonzero(space.feasible)):
+        leaders.setdefault(int(groups[i]), int(i))
+    expected = list(leaders.values())[:10]
+    assert order_scan == expected
+    assert order_model == expected
+    assert best_model == best_scan
+    # the model saw members beyond the leaders, so excluding a pick's whole group is what made them distinct
+    assert figures["binaries"] > len(set(groups[order_model]))
+
+
 def test_bundled_reduction_is_exact(bundled):
     # The reduction drops alternatives; the model over every feasible one must rank the same.
     _, space = bundled
@@ -346,16 +365,30 @@ def space_and_ties():
 # ---------------------------------------------------------------------------
 
 
-def check_model_against_scan(space: Space) -> None:
-    """The brief's property: both find no design, or the same top 3 and per-candidate best, all sound."""
+def check_model_against_scan(space: Space, distinct: str = "variant") -> None:
+    """The brief's property: both find no design, or the same top 3 and per-candidate best, all sound.
+
+    ``distinct`` is the listing (``ranking.DISTINCT``): with groups, both must
+    also list one design per group, each its group's first in tie order.
+    """
+    groups = ranking.listing_groups(space, distinct)
     try:
-        scan_order, scan_best = scan(space, 3)
+        scan_order, scan_best = scan(space, 3, groups)
     except InfeasibleSpec as exc:
         with pytest.raises(InfeasibleSpec) as raised:
-            ranking.select_by_model(space, 3)
+            ranking.select_by_model(space, 3, groups)
         assert str(raised.value) == str(exc)
         return
-    order, best_of, _ = model_solve(space, 3)
+    order, best_of, _ = ranking.select_by_model(space, 3, groups)
+    if groups is not None:
+        assert len(set(groups[order])) == len(order)
+        # each listed design leads its group: nothing of its group comes earlier in tie order
+        feasible = space.tie_order(np.flatnonzero(space.feasible))
+        first = {}
+        for i in feasible:
+            first.setdefault(int(groups[i]), int(i))
+        assert all(first[int(groups[i])] == i for i in order)
+        assert [int(groups[i]) for i in order] == list(dict.fromkeys(int(groups[i]) for i in feasible))[:len(order)]
     assert len(set(order)) == len(order)
     assert_same_ranking(space, order, scan_order, rel=1e-9)
     picked = space.designs(np.array(order + list(best_of.values())))
@@ -375,14 +408,14 @@ def test_generated_model_equals_scan(base, data):
     # Independent method: exhaustive enumeration. Limits are set clear of any
     # design's own figure (0.1 % or more), so no solver tolerance decides.
     # Random scenarios each run.
-    check_model_against_scan(generated_space(base, data, CLEAR))
+    check_model_against_scan(generated_space(base, data, CLEAR), data.draw(st.sampled_from(ranking.DISTINCT)))
 
 
 @GENERATED_FIXED
 @given(base=scenario_dicts(), data=st.data())
 def test_generated_model_equals_scan_with_limits_on_the_edge(base, data):
     # Independent method: exhaustive enumeration; limits sometimes equal a design's figure.
-    check_model_against_scan(generated_space(base, data, ON_THE_EDGE))
+    check_model_against_scan(generated_space(base, data, ON_THE_EDGE), data.draw(st.sampled_from(ranking.DISTINCT)))
 
 
 def regression_runner_up_case() -> dict:

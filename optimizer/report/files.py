@@ -7,16 +7,20 @@ import tempfile
 from pathlib import Path
 
 
-def write_new(path: Path, text: str, *, force: bool = False) -> Path:
-    """Write ``text`` to ``path`` whole (temporary file, then rename); never over a file unless ``force``."""
+def write_new(path: Path, text: str | bytes, *, force: bool = False) -> Path:
+    """Write ``text`` (or bytes) to ``path`` whole (temporary file, then rename); never over a file unless ``force``."""
     path = Path(path)
     if path.exists() and not force:
         raise FileExistsError(f"{path} exists; pass --force to replace it")
     path.parent.mkdir(parents=True, exist_ok=True)
     fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".tmp")
     try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="") as handle:
-            handle.write(text)
+        if isinstance(text, bytes):
+            with os.fdopen(fd, "wb") as handle:
+                handle.write(text)
+        else:
+            with os.fdopen(fd, "w", encoding="utf-8", newline="") as handle:
+                handle.write(text)
         os.replace(tmp, path)
     except BaseException:
         Path(tmp).unlink(missing_ok=True)

@@ -46,8 +46,94 @@ def use_rows(d, i: int = 0) -> list[dict]:
             for j, spec in enumerate(uses.specs)]
 
 
-def design_record(case, d, i: int = 0) -> dict:
-    """One design as plain data (SI units, names spelled out) for JSON and CSV."""
+def tool_record() -> dict:
+    """The tool's name and version, for every report."""
+    import towercost
+
+    return {"name": "towercost", "version": towercost.__version__}
+
+
+def conditions_record(case) -> dict:
+    """The case's conditions and search ranges, as read (SI)."""
+    return {"name": case.name, "mode": case.mode, "agents": list(case.agents),
+            "solutes": list(case.solutes), "feed_flow_mol_s": case.feed_flow,
+            "temperature_K": case.temperature, "pressure_Pa": case.pressure,
+            "trays_range": list(case.trays_range), "ratio_range": list(case.ratio_range)}
+
+
+def economics_record(case) -> dict:
+    """The economic inputs of the annualized cost, and the capital recovery factor they give."""
+    eco = case.economics
+    return {"interest_per_yr": eco.interest, "life_yr": eco.life, "capital_recovery_factor_per_yr": eco.capital_recovery,
+            "hours_per_yr": eco.hours, "electricity_USD_per_J": eco.electricity,
+            "electricity_USD_per_kWh": eco.electricity * 3.6e6, "steam_USD_per_kg": eco.steam,
+            "cooling_water_USD_per_m3": eco.cooling_water, "cost_index": eco.index_to,
+            "cost_index_year": eco.index_year, "contingency": eco.contingency, "fee": eco.fee,
+            "auxiliary": eco.auxiliary}
+
+
+#: A limit whose slack is below this fraction of its bound is reported as binding.
+BINDING = 1e-6
+
+
+def limit_rows(case, d, i: int = 0) -> list[dict]:
+    """Every limit of the scenario at design ``i``: value, bound, whether met and whether binding."""
+    from towercost.design.limits import limit_table
+
+    rows = []
+    for limit in d.limits or limit_table(case, d):
+        value, bound = float(limit.values[i]), float(limit.bound)
+        sign = -1.0 if limit.name == "ratio_low" else 1.0          # stated as -ratio <= -low
+        rows.append({"limit": limit.name, "label": limit.label, "value": sign * value, "bound": sign * bound,
+                     "unit": limit.unit, "met": bool(value <= bound),
+                     "binding": bool(bound - value <= BINDING * max(abs(bound), 1e-300))})
+    return rows
+
+
+def search_bounds(case, d, i: int = 0) -> dict:
+    """Whether the design's decisions sit on the edges of the space searched (a wider range may do better)."""
+    lo, hi = case.trays_range
+    r_lo, r_hi = case.ratio_range
+    ratio = float(d.ratio[i])
+    return {"trays_at_least": int(d.trays[i]) == lo, "trays_at_most": int(d.trays[i]) == hi,
+            "ratio_at_least": math.isclose(ratio, r_lo, rel_tol=1e-9),
+            "ratio_at_most": math.isclose(ratio, r_hi, rel_tol=1e-9)}
+
+
+def controlling(case, d, i: int = 0) -> dict:
+    """The solute whose spec binds (largest outlet over spec) and the one that sets the minimum rate."""
+    a = int(d.agent[i])
+    spec = np.isfinite(case.target)
+    closest = None
+    if spec.any():
+        ratio = np.where(spec, d.outlet[i] / np.where(spec, case.target, 1.0), -np.inf)
+        closest = case.solutes[int(np.argmax(ratio))]
+    per_solute = case.service.minimum_rate(case.feed_flow, case.k_value[a], case.feed_in, case.target, case.lean[a])
+    return {"binding_spec": closest, "minimum_rate_set_by": case.solutes[int(np.argmax(per_solute))]}
+
+
+#: Display units of consumption rates: SI unit -> (unit shown, factor).
+USE_UNITS = {"W": ("kW", 1e-3), "kg/s": ("kg/h", 3600.0), "m3/s": ("m3/h", 3600.0), "mol/s": ("kmol/h", 3.6)}
+
+
+def utilities_summary(d, i: int = 0) -> list[dict]:
+    """One line per consumption of design ``i`` in the units a utility schedule uses, with its yearly cost."""
+    rows = []
+    for j, spec in enumerate(d.uses.specs):
+        unit, factor = USE_UNITS.get(spec.rate_unit, (spec.rate_unit, 1.0))
+        rows.append({"use": spec.key, "label": spec.label, "rate": float(d.uses.rate[i, j]) * factor,
+                     "unit": unit, "credit": spec.credit, "USD_per_yr": float(d.use_cost[i, j])})
+    return rows
+
+
+def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict:
+    """One design as plain data (SI units, names spelled out) for JSON and CSV.
+
+    ``ratio_text`` is the ratio as printed (``towercost.report.ratios``).
+    """
+    from towercost.models.constants import GRAVITY
+    from towercost.report.ids import design_id
+
     a = int(d.agent[i])
     solutes = {}
     for s, name in enumerate(case.solutes):
@@ -62,20 +148,42 @@ def design_record(case, d, i: int = 0) -> dict:
             "theoretical_stages": float(d.stages[i, s]),
             "k_value": float(case.k_value[a, s]),
             "agent_outlet_mole_fraction": float(d.agent_outlet[i, s]),
+            "agent_inlet_mole_fraction": float(case.lean[a, s]),
+            "tray_efficiency": float(d.stages[i, s]) / float(d.trays[i]),
         }
     items = equipment_rows(case, d, i)
     uses = use_rows(d, i)
     by_use = {u["use"]: u for u in uses}
     eco = case.economics
+    agent_mass = d.liquid_mass_flow[i] if case.service.agent_is_liquid else d.gas_mass_flow[i]
+    feed_mass = d.gas_mass_flow[i] if case.service.agent_is_liquid else d.liquid_mass_flow[i]
+    rho_liquid = float(d.liquid_mass_flow[i] / d.liquid_volumetric_flow[i]) if d.liquid_volumetric_flow[i] > 0 else None
     return {
+        "design_id": design_id(case.agents, a, int(d.trays[i]), float(d.rate[i]), float(d.diameter[i])),
         "agent": case.agents[a],
         "trays": int(d.trays[i]),
         "rate_mol_s": float(d.rate[i]),
         "minimum_rate_mol_s": float(d.rate_min[i]),
         "ratio_to_minimum": float(d.ratio[i]),
+        **({"ratio_to_minimum_text": ratio_text} if ratio_text is not None else {}),
+        "agent_to_feed_molar": float(d.rate[i]) / case.feed_flow,
+        "agent_to_feed_mass": float(agent_mass / feed_mass),
         "meets_spec": bool(d.meets_spec[i]),
         "within_limits": bool(d.within_limits[i]),
+        "controlling": controlling(case, d, i),
+        "limits": limit_rows(case, d, i),
+        "at_search_bounds": search_bounds(case, d, i),
         "solutes": solutes,
+        "streams": {
+            "liquid_mol_s": float(d.liquid_flow[i]), "liquid_kg_s": float(d.liquid_mass_flow[i]),
+            "liquid_m3_s": float(d.liquid_volumetric_flow[i]),
+            "gas_mol_s": float(d.gas_flow[i]), "gas_kg_s": float(d.gas_mass_flow[i]),
+            "gas_at_blower_inlet_m3_s": float(d.gas_inlet_flow[i]),
+            "pump_flow_m3_s": float(d.liquid_volumetric_flow[i]), "pump_rise_Pa": float(d.pump_head[i]),
+            "pump_head_m": (float(d.pump_head[i]) / (rho_liquid * GRAVITY)) if rho_liquid else None,
+            "blower_rise_Pa": float(d.blower_rise[i]),
+        },
+        "cost_basis": {"vessel_volume_m3": float(d.volume[i]), "tray_area_m2": float(d.cross_section[i])},
         "column": {
             "diameter_m": float(d.diameter[i]),
             "diameter_required_m": float(d.diameter_required[i]),
@@ -99,7 +207,10 @@ def design_record(case, d, i: int = 0) -> dict:
             "blower_shaft_power_W": float(d.blower_shaft_power[i]),
             "electric_power_W": float(d.electric_power[i]),
             "steam_kg_s": float(d.steam_rate[i]),
+            "cooling_water_m3_s": float(d.cooling_rate[i]),
+            "makeup_kg_s": float(d.makeup_rate[i]),
         },
+        "utilities_summary": utilities_summary(d, i),
         "capital_USD": {
             "cost_index": eco.index_to,
             "cost_index_year": eco.index_year,
@@ -121,45 +232,95 @@ def design_record(case, d, i: int = 0) -> dict:
     }
 
 
-def result_record(result) -> dict:
-    """An optimize result as one plain object."""
+#: What each listing holds, in words (``towercost.select.ranking.DISTINCT``).
+LISTINGS = {"trays": "one design per candidate and tray count, at its best rate and diameter",
+            "variant": "every rate and diameter variant",
+            "candidate": "one design per candidate"}
+
+#: Solver figures that say how an answer was found and how long it took: only with --verbose or in saved reports.
+DIAGNOSTIC_KEYS = ("binaries", "solves", "solver")
+
+
+def inputs_record(scenario) -> dict | None:
+    """The scenario as read and validated, every value in SI."""
+    return None if scenario is None else scenario.model_dump(mode="json")
+
+
+def result_record(result, *, verbose: bool = True) -> dict:
+    """An optimize result as one plain object.
+
+    ``verbose`` False leaves out the solver's timings and diagnostics, so that
+    the same scenario gives the same text on every run.
+    """
+    from towercost.report.ratios import ratio_texts
+
     case = result.case
     best = float(result.designs.annualized[0])
+    texts = ratio_texts(case, result.designs)
     alternatives = []
     for i in range(len(result.designs)):
-        rec = design_record(case, result.designs, i)
+        rec = design_record(case, result.designs, i, ratio_text=texts[i])
         rec["rank"] = i + 1
         rec["above_best"] = (float(result.designs.annualized[i]) - best) / abs(best) if best else 0.0
         alternatives.append(rec)
     band = result.band
+    per_texts = ratio_texts(case, result.per_agent)
+    per_agent = []
+    for i in range(len(result.per_agent)):
+        rec = design_record(case, result.per_agent, i, ratio_text=per_texts[i])
+        if result.per_agent_rank:
+            rec["rank"] = result.per_agent_rank[i]
+        rec["above_best"] = (float(result.per_agent.annualized[i]) - best) / abs(best) if best else 0.0
+        per_agent.append(rec)
+    solver = dict(result.solver)
+    if not verbose:
+        solver = {k: v for k, v in solver.items() if not k.endswith("_seconds") and k not in DIAGNOSTIC_KEYS}
     return {
-        "scenario": {"name": case.name, "mode": case.mode, "agents": list(case.agents),
-                     "solutes": list(case.solutes), "feed_flow_mol_s": case.feed_flow,
-                     "temperature_K": case.temperature, "pressure_Pa": case.pressure,
-                     "trays_range": list(case.trays_range), "ratio_range": list(case.ratio_range)},
+        "tool": tool_record(),
+        "scenario": conditions_record(case),
+        "economics": economics_record(case),
+        "listing": {"distinct": result.distinct, "meaning": LISTINGS[result.distinct]},
         "best": alternatives[0],
         "alternatives": alternatives,
         "band": {"margin": band.margin, "designs": band.count, "trays": list(band.trays),
-                 "ratio_to_minimum": list(band.ratio), "agents": band.agents},
-        "per_agent_best": [design_record(case, result.per_agent, i) for i in range(len(result.per_agent))],
+                 "ratio_to_minimum": list(band.ratio), "agents": band.agents,
+                 "per_agent": [{"agent": r.agent, "designs": r.count, "trays": list(r.trays),
+                                "ratio_to_minimum": list(r.ratio), "diameter_m": list(r.diameter),
+                                "annualized_cost_USD_per_yr": list(r.cost)} for r in band.by_agent]},
+        "per_agent_best": per_agent,
         "no_design": result.unmet,
         "warnings": result.warnings,
-        "solver": result.solver,
+        "solver": solver,
+        "inputs": inputs_record(result.scenario),
         "caution": CAUTION,
     }
+
+
+def saved_report(record: dict, when=None) -> dict:
+    """A report as saved to a file: the record with the date and time of the run (UTC, ISO 8601)."""
+    import datetime
+
+    when = when or datetime.datetime.now(datetime.timezone.utc)
+    return {"run": {"date": when.isoformat(timespec="seconds")}, **record}
 
 
 def alternatives_frame(result):
     """The ranked alternatives as a flat table (pandas), one row per design."""
     import pandas as pd
 
+    from towercost.report.ids import ids_of
+    from towercost.report.ratios import ratio_texts
+
     case, d = result.case, result.designs
     best = float(d.annualized[0])
+    names = ids_of(case, d)
+    texts = ratio_texts(case, d)
     rows = []
     for i in range(len(d)):
         row = {
-            "rank": i + 1, "agent": case.agents[int(d.agent[i])], "trays": int(d.trays[i]),
-            "ratio_to_minimum": float(d.ratio[i]), "rate_kmol_h": float(d.rate[i]) * KMOL_H,
+            "rank": i + 1, "design_id": names[i], "agent": case.agents[int(d.agent[i])], "trays": int(d.trays[i]),
+            "ratio_to_minimum": float(d.ratio[i]), "ratio_to_minimum_text": texts[i],
+            "rate_mol_s": float(d.rate[i]), "rate_kmol_h": float(d.rate[i]) * KMOL_H,
             "diameter_m": float(d.diameter[i]), "height_m": float(d.height[i]),
             "fraction_of_flood": float(d.fraction_of_flood[i]),
             "installed_USD": float(d.installed[i]), "operating_USD_yr": float(d.operating[i]),
@@ -172,6 +333,18 @@ def alternatives_frame(result):
             row[f"outlet_{name}"] = float(d.outlet[i, s])
         rows.append(row)
     return pd.DataFrame(rows)
+
+
+def curve_rows(curve) -> list[dict]:
+    """A cost curve as flat rows: one per tray count (best rate at each), then one per ratio level."""
+    rows = []
+    for table, designs in (("by_trays", curve.by_trays), ("by_ratio", curve.by_ratio)):
+        for i in range(len(designs)):
+            rows.append({"curve": table, "agent": curve.agent, "trays": int(designs.trays[i]),
+                         "ratio_to_minimum": float(designs.ratio[i]), "rate_mol_s": float(designs.rate[i]),
+                         "diameter_m": float(designs.diameter[i]), "installed_USD": float(designs.installed[i]),
+                         "annualized_USD_yr": float(designs.annualized[i])})
+    return rows
 
 
 def to_json(record: dict) -> str:

@@ -11,6 +11,7 @@ from rich.console import Console
 from rich.table import Table
 
 from towercost.design.limits import SPEC_TOLERANCE
+from towercost.report import layout, ratios
 from towercost.report.records import CAUTION, KMOL_H
 from towercost.scenario.units import mole_fraction_text
 
@@ -24,10 +25,8 @@ def _factor_word(case) -> str:
 
 
 def _money(value: float) -> str:
-    return f"{value:,.0f}"
-
-
-# --------------------------------------------------------------------------- terminal
+    """Whole dollars with thousands separators; a value that rounds to zero prints as 0, never -0."""
+    return f"{round(float(value)) or 0:,.0f}"
 
 
 def _table(title: str, *columns: str, right: tuple[int, ...] = ()) -> Table:
@@ -37,35 +36,84 @@ def _table(title: str, *columns: str, right: tuple[int, ...] = ()) -> Table:
     return table
 
 
-def console() -> Console:
-    """A console at least 132 columns wide, so that tables stay whole when piped to a file."""
+def console(width: int | None = None) -> Console:
+    """The console tables print to: the terminal's width, or ``COLUMNS`` (else 120) when piped to a file."""
+    import os
+
+    if width is not None:
+        return Console(width=width)
     probe = Console()
-    return Console(width=max(probe.width, 132)) if not probe.is_terminal else probe
+    if probe.is_terminal:
+        return probe
+    columns = os.environ.get("COLUMNS", "")
+    return Console(width=int(columns) if columns.isdigit() and int(columns) > 0 else WIDE)
 
 
-def print_design(console: Console, case: Case, d: Designs, warnings: list[str], title: str) -> None:
-    """The design sheet of one design point."""
+#: Tables use every column from this width on; below it they leave the least needed out (and fit 80).
+WIDE = 120
+
+
+def _lines(console: Console, columns, rows) -> list[str]:
+    """Print a fitted table; return the labels of the columns it shows."""
+    width = max(console.width, 40)
+    for text, strong in layout.render(columns, rows, width):
+        console.print(text, style="bold" if strong else None, markup=False, highlight=False, soft_wrap=True)
+    return layout.shown(columns, rows, width)
+
+
+def _title(console: Console, text: str) -> None:
+    console.print()
+    console.print(text, style="bold", markup=False, highlight=False)
+
+
+def _legend(console: Console, items: list[tuple[str, str]]) -> None:
+    """The labels explained once, under a table: one line per label, wrapped to the console."""
+    import textwrap
+
+    width = max(console.width, 40)
+    for label, meaning in items:
+        for k, text in enumerate(textwrap.wrap(f"{label}: {meaning}", width - 2, subsequent_indent="    ")):
+            console.print("  " + text, markup=False, highlight=False, style="dim", soft_wrap=True)
+
+
+def print_design(console: Console, case: Case, d: Designs, warnings: list[str], title: str,
+                 note: str | None = None) -> None:
+    """The design sheet of one design point; ``note`` explains a design that misses the spec."""
+    from towercost.report.ids import ids_of
+
     i = 0
     a = int(d.agent[i])
     rw, fw = _ratio_word(case), _factor_word(case)
     status = "meets the spec" if d.meets_spec[i] else "DOES NOT MEET THE SPEC"
     if not d.within_limits[i]:
         status += "; outside a scenario limit"
-    console.print(f"[bold]{title}[/bold]")
-    console.print(f"{case.agents[a]}: {int(d.trays[i])} real trays, {rw} {d.ratio[i]:.3f}, "
-                  f"rate {d.rate[i] * KMOL_H:,.1f} kmol/h (minimum {d.rate_min[i] * KMOL_H:,.1f}); {status}")
+    ratio = ratios.ratio_texts(case, d)[0]
+    console.print(title, style="bold", markup=False, highlight=False)
+    console.print(f"{case.agents[a]}: {int(d.trays[i])} real trays, {rw} {ratio}, "
+                  f"rate {d.rate[i] * KMOL_H:,.3f} kmol/h (minimum {d.rate_min[i] * KMOL_H:,.3f}); {status}",
+                  markup=False, highlight=False)
+    console.print(f"design ID {ids_of(case, d)[0]}", markup=False, highlight=False)
+    console.print(f"conditions: feed {case.feed_flow * KMOL_H:,.1f} kmol/h at {case.temperature - 273.15:.1f} degC "
+                  f"and {case.pressure / 1e5:.4g} bar", markup=False, highlight=False)
+    if note:
+        console.print(note, markup=False, highlight=False)
 
-    sep = _table("Separation", "solute", "K", fw, "theoretical stages", "inlet", "outlet", "spec",
-                 "removed", right=(1, 2, 3, 4, 5, 6, 7))
+    _title(console, "Separation")
+    columns = [layout.Column("solute", left=True, wrap=True), layout.Column("K"), layout.Column(fw),
+               layout.Column("stages", "theor."), layout.Column("tray eff.", keep=4), layout.Column("inlet"),
+               layout.Column("outlet"), layout.Column("spec"), layout.Column("removed", "%", keep=5)]
+    rows = []
     for s, name in enumerate(case.solutes):
         inlet, out, target = case.feed_in[s], d.outlet[i, s], case.target[s]
-        mark = "" if out <= target * (1 + SPEC_TOLERANCE) else "  (misses)"
-        sep.add_row(name, f"{case.k_value[a, s]:.4g}", f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}",
-                    mole_fraction_text(inlet), mole_fraction_text(out) + mark, mole_fraction_text(target), f"{100 * (1 - out / inlet):.3f} %")
-    console.print(sep)
+        mark = "" if out <= target * (1 + SPEC_TOLERANCE) else " (misses)"
+        rows.append(layout.Row([name, f"{case.k_value[a, s]:.4g}", f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}",
+                                f"{d.stages[i, s] / d.trays[i]:.3f}", mole_fraction_text(inlet),
+                                mole_fraction_text(out) + mark, mole_fraction_text(target),
+                                f"{100 * (1 - out / inlet):.3f}"]))
+    _lines(console, columns, rows)
 
-    col = _table("Column (estimating figures, not a mechanical design)", "item", "value", right=(1,))
-    rows = [
+    _title(console, "Column (estimating figures, not a mechanical design)")
+    pairs = [
         ("tray type, spacing", f"{case.tray}, {case.tray_spacing:.3f} m"),
         ("flow parameter", f"{d.flow_parameter[i]:.3g}"),
         ("diameter required at design flood", f"{d.diameter_required[i]:.3f} m"),
@@ -78,78 +126,146 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
         ("shell / trays weight", f"{d.shell_weight[i] / 1000:.2f} t / {d.tray_weight[i] / 1000:.2f} t"),
         ("pump / blower shaft power", f"{d.pump_shaft_power[i] / 1000:.2f} kW / {d.blower_shaft_power[i] / 1000:.2f} kW"),
     ]
-    for r in rows:
-        col.add_row(*r)
-    console.print(col)
+    _lines(console, [layout.Column("item", left=True, wrap=True), layout.Column("value")],
+           [layout.Row(list(p)) for p in pairs])
 
     eco = case.economics
     index_note = f"cost index {eco.index_to:g}" + (f" ({eco.index_year})" if eco.index_year else "")
-    cap = _table(f"Capital, USD at {index_note}", "item", "purchased", "bare module", right=(1, 2))
-    for j, spec in enumerate(d.equipment.specs):
-        cap.add_row(f"{spec.tag} {spec.kind}", _money(d.purchased[i, j]), _money(d.bare_module_items[i, j]))
-    cap.add_row("total module (with contingency and fee)", "", _money(d.total_module[i]))
-    cap.add_row("installed (grassroots, with auxiliary facilities)", "", _money(d.installed[i]))
-    console.print(cap)
+    _title(console, f"Capital, USD at {index_note}")
+    rows = [layout.Row([f"{spec.tag} {spec.kind}", _money(d.purchased[i, j]), _money(d.bare_module_items[i, j])])
+            for j, spec in enumerate(d.equipment.specs)]
+    rows.append(layout.Row(["total module (with contingency and fee)", "", _money(d.total_module[i])]))
+    rows.append(layout.Row(["installed (grassroots, with auxiliary facilities)", "", _money(d.installed[i])],
+                           strong=True))
+    _lines(console, [layout.Column("item", left=True, wrap=True), layout.Column("purchased"),
+                     layout.Column("bare module")], rows)
 
-    op = _table("Annual cost, USD/yr", "item", "USD/yr", right=(1,))
-    for j, spec in enumerate(d.uses.specs):
-        if not spec.credit:
-            op.add_row(spec.label, _money(d.use_cost[i, j]))
+    _title(console, "Annual cost, USD/yr")
+    rows = [layout.Row([spec.label, _money(d.use_cost[i, j])]) for j, spec in enumerate(d.uses.specs)
+            if not spec.credit]
     for name, v in (("operating total", d.operating),
                     ("capital charge (capital recovery x installed)", d.capital_charge),
                     ("credit for recovered solute", -d.credit)):
-        op.add_row(name, _money(v[i]))
-    op.add_row("[bold]total annualized cost[/bold]", f"[bold]{_money(d.annualized[i])}[/bold]")
-    console.print(op)
+        rows.append(layout.Row([name, _money(v[i])]))
+    rows.append(layout.Row(["total annualized cost", _money(d.annualized[i])], strong=True))
+    _lines(console, [layout.Column("item", left=True, wrap=True), layout.Column("USD/yr")], rows)
+    console.print()
     print_warnings(console, warnings)
 
 
 def print_warnings(console: Console, warnings: list[str]) -> None:
     if warnings:
-        console.print("[bold]Warnings[/bold]")
+        console.print("Warnings", style="bold", markup=False, highlight=False)
         for w in warnings:
-            console.print(f"  - {w}", highlight=False)
-    console.print(f"[dim]{CAUTION}[/dim]")
+            console.print(f"  - {w}", markup=False, highlight=False)
+    console.print(CAUTION, style="dim", markup=False, highlight=False)
 
 
-def print_ranking(console: Console, result) -> None:
-    """Ranked alternatives, per-agent best, near-optimal band, solver figures."""
+def _ranking_rows(case, designs, best: float, key: int, ranks: list[int]) -> list[layout.Row]:
+    from towercost.report.ids import ids_of
+
+    texts = ratios.ratio_texts(case, designs)
+    names = ids_of(case, designs)
+    rows = []
+    for i in range(len(designs)):
+        above = (designs.annualized[i] - best) / abs(best) if best else 0.0
+        rows.append(layout.Row([
+            str(ranks[i]), case.agents[int(designs.agent[i])], str(int(designs.trays[i])), texts[i],
+            f"{designs.stages[i, key]:.2f}", f"{designs.factor[i, key]:.3f}", f"{designs.diameter[i]:.3f}",
+            f"{designs.height[i]:.1f}", f"{designs.installed[i] / 1e3:,.0f}",
+            f"{designs.capital_charge[i] / 1e3:,.1f}", f"{(designs.operating[i] - designs.credit[i]) / 1e3:,.1f}",
+            f"{designs.annualized[i] / 1e3:,.1f}", f"{100 * above:.2f}"], below=[f"design ID {names[i]}"],
+            strong=ranks[i] == 1))
+    return rows
+
+
+def _ranking_columns(case, solute: str) -> list[layout.Column]:
+    rw, fw = _ratio_word(case), _factor_word(case)
+    return [layout.Column("#"), layout.Column("candidate", left=True, wrap=True), layout.Column("trays"),
+            layout.Column(rw), layout.Column("N", keep=3), layout.Column(fw, keep=3),
+            layout.Column("diameter", "m", keep=8), layout.Column("height", "m", keep=5),
+            layout.Column("installed", "kUSD", keep=7), layout.Column("capital charge", "kUSD/yr", keep=2),
+            layout.Column("net operating", "kUSD/yr", keep=6), layout.Column("total", "kUSD/yr"),
+            layout.Column("above best", "%")]
+
+
+def print_ranking(console: Console, result, *, verbose: bool = False) -> None:
+    """Ranked alternatives, per-candidate best, near-optimal band per candidate; solver figures when verbose."""
+    from towercost.report.records import LISTINGS, controlling
+
     case, d = result.case, result.designs
     rw, fw = _ratio_word(case), _factor_word(case)
     best = float(d.annualized[0])
-    key = case.solutes[int(np.argmax(np.where(np.isfinite(case.target), 1.0, 0.0)))]
-    console.print(f"[bold]{case.name}[/bold]: the {len(d)} best of {result.space_size:,} alternatives "
-                  f"({result.method}); N = theoretical stages and {fw} = {'absorption' if fw == 'A' else 'stripping'} "
-                  f"factor for {key}; D diameter, H height")
+    solute = controlling(case, d, 0)["binding_spec"] or case.solutes[0]
+    key = case.solutes.index(solute)
+    console.print(f"{case.name}: the {len(d)} best of {result.space_size:,} alternatives "
+                  f"({LISTINGS[result.distinct]})", style="bold", markup=False, highlight=False)
+    columns = _ranking_columns(case, solute)
+    _title(console, "Ranked designs")
+    labels = set(_lines(console, columns, _ranking_rows(case, d, best, key, list(range(1, len(d) + 1)))))
 
-    def table_of(title, designs, ranks=True):
-        t = _table(title, "#" if ranks else "", "candidate", "trays", "N", rw, fw, "D m", "H m",
-                   "capital kUSD", "net oper. kUSD/yr", "total kUSD/yr", "+ %",
-                   right=(2, 3, 4, 5, 6, 7, 8, 9, 10, 11))
-        s = case.solutes.index(key)
-        for i in range(len(designs)):
-            above = (designs.annualized[i] - best) / abs(best) if best else 0.0
-            t.add_row(str(i + 1) if ranks else "", case.agents[int(designs.agent[i])], str(int(designs.trays[i])),
-                      f"{designs.stages[i, s]:.2f}", f"{designs.ratio[i]:.3f}", f"{designs.factor[i, s]:.3f}",
-                      f"{designs.diameter[i]:.2f}", f"{designs.height[i]:.1f}", f"{designs.installed[i] / 1e3:,.0f}",
-                      f"{(designs.operating[i] - designs.credit[i]) / 1e3:,.1f}", f"{designs.annualized[i] / 1e3:,.1f}",
-                      f"{100 * above:.2f}")
-        return t
-
-    console.print(table_of("Ranked designs (operating is net of any credit)", d))
-    console.print(table_of("Best design of each candidate", result.per_agent, ranks=False))
+    _title(console, "Best design of each candidate (# is its rank in the full listing)")
+    _lines(console, columns, _ranking_rows(case, result.per_agent, best, key, result.per_agent_rank
+                                           or list(range(1, len(result.per_agent) + 1))))
     for name, why in result.unmet.items():
-        console.print(f"  {name}: {why}", highlight=False)
+        console.print(f"  {name}: {why}", markup=False, highlight=False)
+
     b = result.band
-    console.print(f"Within {100 * b.margin:g} % of the best ({b.count} designs): trays {b.trays[0]} to {b.trays[1]}, "
-                  f"{rw} {b.ratio[0]:.3f} to {b.ratio[1]:.3f}; candidates: {', '.join(b.agents)}", highlight=False)
-    s = result.solver
-    if s["method"] == "model":
-        console.print(f"[dim]Model: {s['binaries']:,} binaries after dominance reduction, built in "
-                      f"{s['build_seconds'] * 1000:.0f} ms, {s['solves']} solves in {s['solve_seconds'] * 1000:.0f} ms "
-                      f"({s['solver']}); model objective minus exact re-evaluation: {s['difference']:.2e} USD/yr[/dim]")
-    console.print(f"[dim]Space evaluated in {s['evaluate_seconds'] * 1000:.0f} ms; total {s['total_seconds']:.2f} s[/dim]")
+    _title(console, f"Within {100 * b.margin:g} % of the best: {b.count:,} designs")
+    band_columns = [layout.Column("candidate", left=True, wrap=True), layout.Column("designs"),
+                    layout.Column("trays"), layout.Column(rw), layout.Column("diameter", "m"),
+                    layout.Column("total", "kUSD/yr")]
+    _lines(console, band_columns, [layout.Row([
+        r.agent, f"{r.count:,}", f"{r.trays[0]}-{r.trays[1]}",
+        f"{r.ratio[0]:.3f}-{r.ratio[1]:.3f}", f"{r.diameter[0]:.3f}-{r.diameter[1]:.3f}",
+        f"{r.cost[0] / 1e3:,.1f}-{r.cost[1] / 1e3:,.1f}"]) for r in b.by_agent])
+
+    console.print()
+    eco = case.economics
+    index_note = f"cost index {eco.index_to:g}" + (f" ({eco.index_year})" if eco.index_year else "")
+    legend = [
+        (rw, rw, f"{case.service.agent_word} rate over the least rate with unlimited stages, rounded up to the "
+                 "digits that give the same design when typed back"),
+        ("N", "N", f"theoretical stages for {solute}, the solute whose spec binds"),
+        (fw, fw, f"{case.service.factor_name} for {solute}"),
+        ("installed", "installed", f"grassroots capital with auxiliary facilities, at {index_note}"),
+        ("capital charge", "capital charge", f"capital recovery factor {eco.capital_recovery:.4f}/yr x installed"),
+        ("net operating", "net operating", "yearly operating cost less any credit for recovered solute"),
+        ("total", "total", "total annualized cost: capital recovery factor x installed + operating cost - credit"),
+        ("above best", "above best", "how much dearer than the best design"),
+        ("design ID", "trays", "'towercost evaluate SCENARIO --design ID' prints that design's sheet"),
+    ]
+    _legend(console, [(label, meaning) for label, column, meaning in legend if column in labels])
+    if verbose:
+        s = result.solver
+        if s["method"] == "model":
+            console.print(f"Model: {s['binaries']:,} binaries after exact reduction, built in "
+                          f"{s['build_seconds'] * 1000:.0f} ms, {s['solves']} solves in "
+                          f"{s['solve_seconds'] * 1000:.0f} ms ({s['solver']}); model objective minus exact "
+                          f"re-evaluation: {s['difference']:.2e} USD/yr", style="dim", markup=False, highlight=False)
+        console.print(f"Space evaluated in {s['evaluate_seconds'] * 1000:.0f} ms; total {s['total_seconds']:.2f} s",
+                      style="dim", markup=False, highlight=False)
     print_warnings(console, result.warnings)
+
+
+def print_equipment(console: Console, rows: list[dict], utilities: list[dict], title: str) -> None:
+    """The equipment list (tag, service, key sizes, costs) and the utilities summary of one design."""
+    console.print(title, style="bold", markup=False, highlight=False)
+    if rows:
+        console.print(f"design ID {rows[0]['design_id']}", markup=False, highlight=False)
+    _title(console, f"Equipment, USD at cost index {rows[0]['estimate_index']:g}" if rows else "Equipment")
+    columns = [layout.Column("tag", left=True), layout.Column("item", left=True, wrap=True),
+               layout.Column("material", left=True, keep=4), layout.Column("purchased", "USD"),
+               layout.Column("bare module", "USD"), layout.Column("range", "held", keep=5)]
+    _lines(console, columns, [layout.Row([
+        r["tag"], r["item"], r["material"], _money(r["purchased_USD"]), _money(r["bare_module_USD"]),
+        "yes" if r["range_held"] else "NO"], below=[f"{r['type']}; {r['key_sizes']}"]) for r in rows])
+    _title(console, "Utilities")
+    _lines(console, [layout.Column("use", left=True, wrap=True), layout.Column("rate"), layout.Column("unit", left=True),
+                     layout.Column("cost", "USD/yr")],
+           [layout.Row([u["use"], f"{u['rate']:,.4g}", u["unit"], _money(u["cost_USD_per_yr"])]) for u in utilities])
+    console.print()
+    console.print(CAUTION, style="dim", markup=False, highlight=False)
 
 
 def print_curve(console: Console, curve) -> None:

@@ -35,6 +35,17 @@ first; if it is fractional the binaries are restored and HiGHS solves the MIP
 with both gaps at zero. Shared-limit rows are divided by their bound so that
 small bounds stay above HiGHS's feasibility tolerance.
 
+Distinct choices: a query may name a group for every alternative of a unit
+(``distinct``: the same candidate and tray count, say). Each pick then
+excludes its whole group, not only itself: for one unit every alternative of
+the picked group gets the bound 0; for several units the cut is
+
+    group_cut[k]:  sum_u sum_(d in G_u(k)) pick[u, d] <= |U| - 1
+
+over the groups G_u(k) of the k-th choice, which forbids the same tuple of
+groups again. The k best distinct choices are then the k best tuples of
+groups, each at its best alternatives.
+
 Ties: after each solve, each unit's pick is replaced by the alternative that
 comes first in the tie order among those of no greater cost and no greater use
 of any shared resource (so the choice stays feasible and no dearer); the
@@ -254,10 +265,11 @@ class _Solver:
             self.upper[columns] = value
             self.h.changeColsBounds(columns.size, columns, np.zeros(columns.size), np.full(columns.size, value))
 
-    def add_no_good(self, columns) -> None:
-        """Forbid choosing all of ``columns`` together again."""
+    def add_no_good(self, columns, bound: float | None = None) -> None:
+        """Forbid choosing all of ``columns`` together again: their sum at most ``bound`` (default: count - 1)."""
         columns = np.asarray(columns, dtype=np.int32)
-        self.h.addRow(-np.inf, float(columns.size - 1), columns.size, columns, np.ones(columns.size))
+        bound = float(columns.size - 1) if bound is None else float(bound)
+        self.h.addRow(-np.inf, bound, columns.size, columns, np.ones(columns.size))
 
     def solve(self) -> tuple[np.ndarray, float] | None:
         """Column values and objective of an optimal choice, or None when none exists."""
@@ -365,12 +377,16 @@ class SelectionModel:
         return float(sum(self.units[u].cost[d] for u, d in enumerate(choice))
                      + sum(self.options[o].cost for o in taken))
 
-    def best(self, top: int = 1, restrict: list[np.ndarray | None] | None = None) -> Selection:
+    def best(self, top: int = 1, restrict: list[np.ndarray | None] | None = None,
+             distinct: list[np.ndarray | None] | None = None) -> Selection:
         """The ``top`` best distinct choices (one alternative per unit), best first.
 
         ``restrict`` optionally gives, per unit, a boolean mask of the
-        alternatives allowed. Raises ``Infeasible`` when no choice exists.
-        Exclusions and cuts of one query are undone before the next.
+        alternatives allowed. ``distinct`` optionally gives, per unit, a group
+        label for each alternative: a pick then excludes its whole group (the
+        choices differ in at least one unit's group); None keeps each
+        alternative its own group. Raises ``Infeasible`` when no choice
+        exists. Exclusions and cuts of one query are undone before the next.
         """
         start = time.perf_counter()
         solver, units, offsets = self.solver, self.units, self.offsets
@@ -379,8 +395,11 @@ class SelectionModel:
             for u, mask in enumerate(restrict):
                 if mask is not None:
                     solver.set_upper(offsets[u] + np.flatnonzero(~np.asarray(mask, bool)), 0.0)
+        groups = [np.arange(len(unit)) if distinct is None or distinct[u] is None else np.asarray(distinct[u])
+                  for u, unit in enumerate(units)]
         choices: list[tuple[int, ...]] = []
         taken_options: list[tuple[int, ...]] = []
+        picked: list[tuple] = []           # the groups of each choice made
         objective: list[float] = []
         single = len(units) == 1 and not self.options and not self.links
         first_option = int(offsets[-1])
@@ -396,15 +415,21 @@ class SelectionModel:
                 raw = [int(np.argmax(values[offsets[u]:offsets[u + 1]])) for u in range(len(units))]
                 taken = [o for o in range(len(self.options)) if values[first_option + o] > 0.5]
                 choice = _polish(units, offsets, solver.upper > 0.5, raw)
-                if (not single and tuple(choice) in choices) or not _exact(
+                if (not single and tuple(groups[u][d] for u, d in enumerate(choice)) in picked) or not _exact(
                         units, self.shared, self.options, self.links, choice, taken):
                     choice = raw
-                columns = [offsets[u] + d for u, d in enumerate(choice)]
+                key = tuple(groups[u][d] for u, d in enumerate(choice))
+                within = _exact(units, self.shared, self.options, self.links, choice, taken)
+                if within:   # the group cut: every alternative of each picked group
+                    columns = np.concatenate([offsets[u] + np.flatnonzero(groups[u] == groups[u][d])
+                                              for u, d in enumerate(choice)])
+                else:        # only this choice: others of its groups may still meet the limit
+                    columns = np.array([offsets[u] + d for u, d in enumerate(choice)])
                 if single:
-                    solver.set_upper(columns, 0.0)            # the no-good cut of a one-hot choice
+                    solver.set_upper(columns, 0.0)            # the cut of a one-hot choice: bounds to 0
                 else:
-                    solver.add_no_good(columns)
-                if not _exact(units, self.shared, self.options, self.links, choice, taken):
+                    solver.add_no_good(columns, bound=len(units) - 1)
+                if not within:
                     # met a shared limit only within the solver's tolerance: cut off, not reported
                     rejected += 1
                     if rejected > MAX_REJECTED:
@@ -413,6 +438,7 @@ class SelectionModel:
                     continue
                 choices.append(tuple(choice))
                 taken_options.append(tuple(taken))
+                picked.append(key)
                 objective.append(self._cost(choice, taken))
         finally:
             solver.set_upper(np.arange(solver.n), 1.0)
@@ -470,6 +496,7 @@ class SelectionModel:
 
 
 def solve(units: list[Unit], shared: list[SharedLimit] = (), top: int = 1, *, options: list[Option] = (),
-          links: list[LinkRow] = (), restrict: list[np.ndarray | None] | None = None) -> Selection:
+          links: list[LinkRow] = (), restrict: list[np.ndarray | None] | None = None,
+          distinct: list[np.ndarray | None] | None = None) -> Selection:
     """Build the model over ``units`` and return its ``top`` best distinct choices."""
-    return SelectionModel(units, shared, options, links).best(top, restrict)
+    return SelectionModel(units, shared, options, links).best(top, restrict, distinct)

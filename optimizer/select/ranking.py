@@ -24,9 +24,36 @@ from towercost.design.reasons import infeasible_reason
 from towercost.design.space import Space, build_space
 from towercost.errors import InfeasibleSpec
 from towercost.scenario.schema import Scenario
-from towercost.select.scan import first_per_agent, scan
+from towercost.select.scan import first_distinct, first_in_order, first_per_agent, scan
 
 METHODS = ("model", "scan")
+
+#: How the ranking lists designs: one row per (candidate, internals, trays) group at its best rate and
+#: diameter (the default), every rate and diameter variant, or one row per candidate.
+DISTINCT = ("trays", "variant", "candidate")
+
+
+def listing_groups(space: Space, distinct: str) -> np.ndarray | None:
+    """The group label of every alternative for a listing (``DISTINCT``); None: each its own group."""
+    if distinct not in DISTINCT:
+        raise ValueError(f"distinct must be one of {', '.join(DISTINCT)}, got {distinct!r}")
+    if distinct == "trays":
+        return space.group                      # (candidate, trays); the internals are the scenario's one kind
+    if distinct == "candidate":
+        return space.agent.astype(np.int64)
+    return None
+
+
+@dataclass
+class BandRange:
+    """One candidate's designs within the margin of the best: how far each decision ranges."""
+
+    agent: str
+    count: int
+    trays: tuple[int, int]
+    ratio: tuple[float, float]
+    diameter: tuple[float, float]      # [m]
+    cost: tuple[float, float]          # annualized [USD/yr]
 
 
 @dataclass
@@ -38,6 +65,7 @@ class Band:
     trays: tuple[int, int]
     ratio: tuple[float, float]
     agents: list[str]
+    by_agent: list[BandRange] = field(default_factory=list)   # the same, per candidate, in scenario order
 
 
 @dataclass
@@ -53,6 +81,9 @@ class Result:
     warnings: list[str]
     solver: dict                     # method, sizes, times, objective and its difference from exact
     space_size: int
+    distinct: str = "trays"          # how the ranking lists designs (``DISTINCT``)
+    per_agent_rank: list[int] = field(default_factory=list)   # rank of each per-candidate best in the listing
+    scenario: Scenario | None = field(default=None, repr=False)   # the inputs as read (SI)
 
     @property
     def best(self) -> Designs:
@@ -66,32 +97,69 @@ class Result:
 
 
 def near_optimal_band(space: Space, best_cost: float, margin: float) -> Band:
-    """The trays and ratio spanned by designs whose cost is within ``margin`` of the best."""
+    """The trays and ratio spanned by designs whose cost is within ``margin`` of the best, overall and per candidate."""
     inside = space.feasible & (space.cost <= best_cost + margin * abs(best_cost))
-    ratio = space.ratio[inside]
+    ratio = space.ratio
     agents = [space.case.agents[a] for a in np.unique(space.agent[inside])]
+    by_agent = []
+    for a in np.unique(space.agent[inside]):
+        mine = inside & (space.agent == a)
+        by_agent.append(BandRange(
+            agent=space.case.agents[a], count=int(mine.sum()),
+            trays=(int(space.trays[mine].min()), int(space.trays[mine].max())),
+            ratio=(float(ratio[mine].min()), float(ratio[mine].max())),
+            diameter=(float(space.diameter[mine].min()), float(space.diameter[mine].max())),
+            cost=(float(space.cost[mine].min()), float(space.cost[mine].max()))))
     return Band(margin=margin, count=int(inside.sum()),
                 trays=(int(space.trays[inside].min()), int(space.trays[inside].max())),
-                ratio=(float(ratio.min()), float(ratio.max())), agents=agents)
+                ratio=(float(ratio[inside].min()), float(ratio[inside].max())), agents=agents, by_agent=by_agent)
 
 
-def select_by_model(space: Space, top: int) -> tuple[list[int], dict[int, int], dict]:
+def rank_in_listing(space: Space, index: int, group: np.ndarray | None) -> int:
+    """Rank (1 = best) the alternative ``index`` holds in the listing: 1 + the groups led by earlier ones.
+
+    Earlier means before it in the tie order among the alternatives that
+    meet every limit (``index`` is one of them); with ``group`` None every
+    alternative counts as its own group.
+    """
+    cost, c = space.cost, space.cost[index]
+    earlier = space.feasible & (cost < c)
+    tied = space.tie_order(np.flatnonzero(space.feasible & (cost == c)))
+    earlier[tied[:int(np.flatnonzero(tied == index)[0])]] = True
+    if group is None:
+        return int(earlier.sum()) + 1
+    return int(np.unique(group[earlier]).size) + 1
+
+
+def select_by_model(space: Space, top: int, distinct: np.ndarray | None = None) -> tuple[list[int], dict[int, int], dict]:
     """The model's ``top`` best and each candidate's best, as indices into ``space``, with solver figures.
 
     Every alternative the model sees meets every limit (a one-unit scenario
-    has only per-design limits); of those it sees the first ``top`` of each
-    candidate in tie order, which hold the top ``top`` overall and every
-    candidate's best, so the reduction is exact.
+    has only per-design limits); of those it sees, per candidate, the first
+    ``top`` in tie order and, with ``distinct`` groups, the leaders of the
+    first ``top`` groups. The model excludes a pick's whole group. The set is
+    exact: the top ``top`` groups overall are among the candidates' first
+    ``top`` groups, whose leaders it holds; every other alternative it holds
+    comes after its own group's leader, which it also holds (a leader comes
+    first in its group, so it is among a candidate's first ``top`` whenever a
+    member is); and each candidate's best is its first.
     """
     from towercost.select import model
 
     feasible = np.flatnonzero(space.feasible)
     if feasible.size == 0:
         raise InfeasibleSpec(infeasible_reason(space))
-    kept = space.tie_order(np.concatenate(list(first_per_agent(space, feasible, top).values())))
+    parts = []
+    for a in np.unique(space.agent[feasible]):
+        mine = feasible[space.agent[feasible] == a]
+        parts.append(first_in_order(space, mine, top))
+        if distinct is not None:
+            parts.append(first_distinct(space, mine, top, distinct))
+    kept = space.tie_order(np.unique(np.concatenate(parts)))
     unit = model.Unit("column", cost=space.cost[kept], rank=np.arange(kept.size), label=kept)
     selection = model.SelectionModel([unit])
-    order = [int(kept[c[0]]) for c in selection.best(top).choices]
+    groups = None if distinct is None else [distinct[kept]]
+    order = [int(kept[c[0]]) for c in selection.best(top, distinct=groups).choices]
     best_of = {}
     agent_of = space.agent[kept]
     for a in np.unique(agent_of):
@@ -102,16 +170,21 @@ def select_by_model(space: Space, top: int) -> tuple[list[int], dict[int, int], 
     return order, best_of, figures
 
 
-def optimize(scenario: Scenario, *, top: int = 10, method: str = "model",
+def optimize(scenario: Scenario, *, top: int = 10, method: str = "model", distinct: str = "trays",
              progress: Callable[[int, int], None] | None = None) -> Result:
     """Rank the ``top`` best distinct designs of the scenario by total annualized cost.
 
     ``method`` is "model" (Pyomo, solved by HiGHS) or "scan" (every
-    alternative evaluated and sorted). Raises InfeasibleSpec when no design
-    meets the spec within the limits.
+    alternative evaluated and sorted). ``distinct`` says what counts as a
+    distinct design (``DISTINCT``): "trays", one row per candidate and tray
+    count at its best rate and diameter; "variant", every rate and diameter
+    variant; "candidate", one row per candidate. Raises InfeasibleSpec when
+    no design meets the spec within the limits.
     """
     if method not in METHODS:
         raise ValueError(f"method must be 'model' or 'scan', got {method!r}")
+    if distinct not in DISTINCT:
+        raise ValueError(f"distinct must be one of {', '.join(DISTINCT)}, got {distinct!r}")
     if top < 1:
         raise ValueError(f"top must be at least 1, got {top}")
     t0 = time.perf_counter()
@@ -119,11 +192,12 @@ def optimize(scenario: Scenario, *, top: int = 10, method: str = "model",
     space = build_space(case, progress=progress)
     t1 = time.perf_counter()
     solver: dict = {"method": method, "alternatives_evaluated": len(space), "evaluate_seconds": t1 - t0}
+    groups = listing_groups(space, distinct)
     if method == "model":
-        order, best_of, figures = select_by_model(space, top)
+        order, best_of, figures = select_by_model(space, top, groups)
         solver.update(figures)
     else:
-        order, best_of = scan(space, top)
+        order, best_of = scan(space, top, groups)
     ranked = space.designs(order)
     exact = ranked.annualized
     objective = space.cost[order]
@@ -137,10 +211,12 @@ def optimize(scenario: Scenario, *, top: int = 10, method: str = "model",
         if a not in best_of:
             unmet[name] = infeasible_reason(build_space(case, agents=[a]))
     warnings = list(dict.fromkeys(ranked.warnings + dilute_checks(case, ranked.take(np.array([0])))))
+    ranks = [rank_in_listing(space, best_of[a], groups) for a in agents_with]
     solver["total_seconds"] = time.perf_counter() - t0
     return Result(case=case, method=method, designs=ranked, per_agent=per_agent,
                   band=near_optimal_band(space, float(exact[0]), case.margin), unmet=unmet,
-                  warnings=warnings, solver=solver, space_size=len(space))
+                  warnings=warnings, solver=solver, space_size=len(space), distinct=distinct,
+                  per_agent_rank=ranks, scenario=scenario)
 
 
 def evaluate_design(scenario: Scenario, agent: str, trays: int, *, ratio: float | None = None,

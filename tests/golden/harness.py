@@ -1,6 +1,7 @@
 """The golden-output harness: the CLI runs whose outputs are kept as a regression record.
 
-``cases()`` lists every run (optimize --json, evaluate --json, curve and
+``cases()`` lists every run (optimize --json in the default listing and in
+the finer one of every rate and diameter variant, evaluate --json, curve and
 rate --json on every bundled scenario and test file; site --json on every
 bundled site file); ``run_case`` runs one
 in-process through typer's CliRunner and returns its exit code and output,
@@ -79,8 +80,9 @@ def cases() -> dict[str, list[str]]:
         rel = path.relative_to(ROOT)
         if "[site]" in path.read_text(encoding="utf-8"):
             runs[f"{path.stem}-site"] = ["site", str(rel), "--json"]
-        else:
-            runs[f"{path.stem}-optimize"] = ["optimize", str(rel), "--json"]
+            continue
+        runs[f"{path.stem}-optimize"] = ["optimize", str(rel), "--json"]
+        runs[f"{path.stem}-optimize-variant"] = ["optimize", str(rel), "--distinct", "variant", "--json"]
     runs.update(RATE_RUNS)
     return runs
 
