@@ -454,6 +454,8 @@ def report(
 def site(
     sitefile: Path = typer.Argument(..., help="Site file (TOML): units, shared limits, linking rules."),
     top: int = typer.Option(5, "--top", min=1, max=100, help="How many joint choices to rank."),
+    distinct: str = typer.Option("trays", "--distinct", help="How listed choices differ: trays (a unit's candidate "
+                                 "or tray count), candidate, or variant (any design)."),
     as_json: bool = typer.Option(False, "--json", help="Print one JSON object instead of tables."),
     csv: bool = typer.Option(False, "--csv", help="Write the joint choices as CSV into the output folder."),
     out: Path = typer.Option(DEFAULT_OUT, "--out", help="Output folder for --csv."),
@@ -464,8 +466,12 @@ def site(
     from towercost.scenario.site import load_site
     from towercost.select.site import optimize_site
 
+    from towercost.select.site import LISTINGS
+
+    if distinct not in LISTINGS:
+        _fail(f"--distinct must be one of {', '.join(LISTINGS)}, got {distinct!r}")
     spec = _run(lambda: load_site(sitefile))
-    result = _run(lambda: optimize_site(spec, top=top), out)
+    result = _run(lambda: optimize_site(spec, top=top, distinct=distinct), out)
     if csv:
         rows = []
         for rank, portfolio in enumerate(result.portfolios, start=1):

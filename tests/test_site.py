@@ -112,19 +112,27 @@ SITES = settings(max_examples=100, deadline=None, database=None, derandomize=Tru
 
 
 @SITES
-@given(spec=small_sites())
-def test_site_model_equals_brute_force_over_the_joint_product(spec):
-    # Independent method: enumeration of every joint choice of the units' feasible designs.
-    site = site_model.assemble(spec, 3)
+@given(spec=small_sites(), listing=st.sampled_from(["trays", "variant", "candidate"]))
+def test_site_model_equals_brute_force_over_the_joint_product(spec, listing):
+    # Independent method: enumeration of every joint choice of the units' feasible designs;
+    # listing distinct groups, each joint choice of groups at its cheapest feasible variants.
+    site = site_model.assemble(spec, 3, listing)
     expected, picks, ok = brute_force(site, 10**9)
     ok &= rules_ok(spec, site.spaces, picks)
     cost = sum(s.cost[p] for s, p in zip(site.spaces, picks))
-    expected = np.sort(cost[ok])[:3]
+    if listing == "variant":
+        expected = np.sort(cost[ok])[:3]
+    else:
+        keys = np.stack([(s.group if listing == "trays" else s.agent)[p] for s, p in zip(site.spaces, picks)])[:, ok]
+        _, inverse = np.unique(keys, axis=1, return_inverse=True)
+        best = np.full(inverse.max() + 1 if inverse.size else 0, np.inf)
+        np.minimum.at(best, inverse.ravel(), cost[ok])
+        expected = np.sort(best)[:3]
     if expected.size == 0:
         with pytest.raises(InfeasibleSpec):
-            optimize_site(spec, top=3)
+            optimize_site(spec, top=3, distinct=listing)
         return
-    result = optimize_site(spec, top=3)
+    result = optimize_site(spec, top=3, distinct=listing)
     got = [p.annualized for p in result.portfolios]
     np.testing.assert_allclose(got, expected[:len(got)], rtol=1e-9)
     assert len(got) == expected.size

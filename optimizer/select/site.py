@@ -70,19 +70,40 @@ class SiteResult:
     solver: dict
 
 
-def _unit(name: str, space: Space, keep: int, resources: list[str]) -> model.Unit:
-    """The unit as the model sees it: feasible alternatives, reduced exactly per candidate."""
+#: How the joint choices listed differ: the design groups the model excludes after each pick.
+LISTINGS = ("trays", "variant", "candidate")
+
+
+def _groups(space: Space, index: np.ndarray, listing: str) -> np.ndarray:
+    """The listing's group of each alternative: its candidate and trays, its candidate, or itself."""
+    if listing == "trays":
+        return space.group[index]
+    if listing == "candidate":
+        return space.agent[index].astype(int)
+    return np.arange(index.size)
+
+
+def _unit(name: str, space: Space, keep: int, resources: list[str], listing: str) -> model.Unit:
+    """The unit as the model sees it: feasible alternatives, reduced exactly for the listing.
+
+    Listing every variant, an alternative with ``keep`` dominators of the same
+    candidate is dropped; listing groups (candidate and trays, or candidate),
+    only the group's undominated alternatives are kept, since a joint choice
+    of groups is priced at its best variants.
+    """
     feasible = np.flatnonzero(space.feasible)
     if feasible.size == 0:
         raise InfeasibleSpec(f"unit {name!r}: {infeasible_reason(space)}")
     order = space.tie_order(feasible)
     rank = np.empty(len(space), int)
     rank[order] = np.arange(order.size)
+    within = space.agent[order] if listing == "variant" else _groups(space, order, listing)
+    depth = keep if listing == "variant" else 1
     kept = []
-    for a in np.unique(space.agent[order]):
-        members = order[space.agent[order] == a]
+    for label in np.unique(within):
+        members = order[within == label]
         usage = {r: space.usage[r][members] for r in resources}
-        kept.append(members[undominated(space.cost[members], rank[members], usage, keep)])
+        kept.append(members[undominated(space.cost[members], rank[members], usage, depth)])
     kept = space.tie_order(np.concatenate(kept))
     return model.Unit(name, cost=space.cost[kept], rank=np.arange(kept.size),
                       usage={r: space.usage[r][kept] for r in resources}, label=kept,
@@ -149,15 +170,15 @@ class Assembly:
     evaluate_seconds: float
 
 
-def assemble(spec: SiteSpec, keep: int) -> Assembly:
-    """Evaluate every unit's space and reduce it exactly for the ``keep`` best joint choices."""
+def assemble(spec: SiteSpec, keep: int, listing: str = "variant") -> Assembly:
+    """Evaluate every unit's space and reduce it exactly for the ``keep`` best joint choices of the listing."""
     start = time.perf_counter()
     limits = {name: (float(getattr(spec.shared, name)), SHARED[name][1], SHARED[name][2])
               for name in SHARED if getattr(spec.shared, name) is not None}
     resources = [SHARED[name][0] for name in limits]
     spaces = [build_space(prepare(scenario), keep=tuple(resources)) for _, scenario in spec.units]
     evaluated = time.perf_counter() - start
-    units = [_unit(name, space, keep, resources) for (name, _), space in zip(spec.units, spaces)]
+    units = [_unit(name, space, keep, resources, listing) for (name, _), space in zip(spec.units, spaces)]
     shared = [model.SharedLimit(name, SHARED[name][0], bound, words) for name, (bound, _, words) in limits.items()]
     options, rows = _links(spec, units, spaces)
     return Assembly(spaces, units, shared, options, rows, limits, evaluated)
@@ -172,14 +193,22 @@ def chosen_groups(assembly: Assembly, choice: tuple[int, ...]) -> list[np.ndarra
     return groups
 
 
-def optimize_site(spec: SiteSpec, *, top: int = 5) -> SiteResult:
-    """The ``top`` best joint choices of one design per unit, under the site's shared limits and rules."""
+def optimize_site(spec: SiteSpec, *, top: int = 5, distinct: str = "trays") -> SiteResult:
+    """The ``top`` best joint choices of one design per unit, under the site's shared limits and rules.
+
+    ``distinct`` says how listed choices differ: "trays" (default) in at
+    least one unit's candidate or tray count, "candidate" in at least one
+    unit's candidate, "variant" in any design at all.
+    """
+    if distinct not in LISTINGS:
+        raise ValueError(f"distinct must be one of {', '.join(LISTINGS)}, got {distinct!r}")
     start = time.perf_counter()
-    site = assemble(spec, top)
+    site = assemble(spec, top, distinct)
     spaces, units, limits = site.spaces, site.units, site.limits
     selection_model = model.SelectionModel(units, site.shared, site.options, site.rows)
+    groups_of = [_groups(space, unit.label, distinct) for space, unit in zip(spaces, units)]
     try:
-        selection = selection_model.best(top)
+        selection = selection_model.best(top, distinct=groups_of)
     except model.Infeasible:
         raise InfeasibleSpec(_why_not(spec, spaces, limits)) from None
     portfolios = [_portfolio(spaces, [int(u.label[d]) for u, d in zip(units, choice)], limits)
