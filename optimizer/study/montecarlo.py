@@ -34,6 +34,9 @@ from towercost.study.uncertainty import FixedStudy, study_design
 #: Nominal designs whose regret is tabulated (with the studied design, if it is not among them).
 REGRET_DESIGNS = 5
 
+#: The deepest rank of the nominal ranking a study may pick (as ``optimize --top``).
+MAX_RANK = 200
+
 
 @dataclass
 class Chosen:
@@ -91,6 +94,8 @@ def monte_carlo(scenario: Scenario, chosen: Chosen | None = None, *, samples: in
                 progress: Callable[[str, int, int], None] | None = None) -> MonteCarlo:
     """The whole study (see the module notes); ``progress(phase, done, total)`` is called as it goes."""
     chosen = Chosen() if chosen is None else chosen
+    if chosen.agent is None and not 1 <= (chosen.rank or 1) <= MAX_RANK:
+        raise ScenarioError(f"--design must be a rank from 1 to {MAX_RANK}, got {chosen.rank}")
     u = scenario.uncertainty
     confidence = u.confidence if confidence is None else float(confidence)
     if not 0.0 < confidence < 1.0:
