@@ -11,7 +11,6 @@ annualization against a loop of single-point annualizations.
 
 from __future__ import annotations
 
-import copy
 import dataclasses
 import math
 import tomllib
@@ -27,10 +26,9 @@ from towercost.design.column import SingleColumn
 from towercost.design.costlines import annualize
 from towercost.design.space import build_space
 from towercost.models import economics as economics_models
-from towercost.models.probability import standard_normal_cdf
 from towercost.select.scan import scan
-from towercost.study.fixed import Decisions, sample_design, sample_factors, sampled_case
-from towercost.study.margin import rate_margin, trays_margin
+from towercost.study.fixed import Decisions, sample_design, sampled_case
+from towercost.study.margin import cheapest_margin, rate_margin, trays_margin
 from towercost.study.montecarlo import Chosen, monte_carlo
 from towercost.study.pricing import annualize_points, price_factors
 from towercost.study.reoptimize import reoptimize
@@ -353,6 +351,12 @@ def test_margin_designs_reach_the_confidence_and_one_step_less_does_not():
     less = dataclasses.replace(by_rate.design, rate=by_rate.design.rate * (1 - 1e-6))
     assert sample_design(scenario, case, less, draws).meets_spec.mean() < 0.9
     assert by_trays.extra_cost > 0 and by_rate.extra_cost > 0
+    # both free: never dearer than either, and its rate one step lower misses the confidence
+    cheapest = cheapest_margin(scenario, case, draws, 0.9, base)
+    assert cheapest.meets.probability >= 0.9
+    assert cheapest.extra_cost <= min(by_trays.extra_cost, by_rate.extra_cost) + 1e-6
+    less = dataclasses.replace(cheapest.design, rate=cheapest.design.rate * (1 - 1e-6))
+    assert sample_design(scenario, case, less, draws).meets_spec.mean() < 0.9
 
 
 def _own_case(scenario, case, draws, i):
@@ -392,7 +396,7 @@ def test_regret_is_never_negative_where_the_design_meets_the_spec():
         assert math.isnan(g.regret_when_met) or g.regret_when_met >= -1e-6
         assert 0.0 <= g.meets <= 1.0 and 0.0 <= g.wins <= 1.0
     assert mc.fixed.samples == 400
-    assert mc.margins[0].kind == "trays" and mc.margins[1].kind == "rate"
+    assert [m.kind for m in mc.margins] == ["trays", "rate", "cheapest"]
 
 
 def test_a_design_of_ones_own_and_a_rank():

@@ -101,6 +101,8 @@ def uncertainty_record(mc) -> dict:
 
 def _margin(case, m) -> dict:
     out = {"kind": m.kind, "note": m.reason}
+    if m.curve is not None:
+        out["fraction_meeting_every_spec_by_trays"] = {int(t): float(f) for t, f in zip(*m.curve)}
     if m.design is None:
         out["design"] = None
         return out

@@ -117,7 +117,8 @@ def print_uncertainty(console: Console, mc) -> None:
                "margin", "design", "meets", "kUSD/yr", "extra kUSD/yr", "extra", right=(2, 3, 4, 5))
     base = float(mc.nominal.annualized[0])
     for m in mc.margins:
-        what = "fewest trays at the design's rate" if m.kind == "trays" else f"least {rw} at the design's trays"
+        what = {"trays": "fewest trays at the design's rate", "rate": f"least {rw} at the design's trays",
+                "cheapest": "cheapest design at this confidence"}[m.kind]
         if m.design is None:
             t.add_row(what, m.reason, "", "", "", "")
             continue

@@ -6,7 +6,9 @@ the nominal designs (the exhaustive scan), and runs on the same draws:
 1. the fixed design (a rank of the nominal ranking, or decisions given):
    probability of meeting every spec with its standard error and closed
    form, outlets and annualized cost at the 5th, 50th and 95th percentiles;
-2. its margin designs for the scenario's confidence (``margin``);
+2. its margin designs for the scenario's confidence (``margin``): more
+   trays, more agent, and the cheapest design of the space at that
+   confidence;
 3. the first ``reoptimize`` samples re-optimized (``reoptimize``): how often
    each design family is best, and the regret of the top nominal designs.
 """
@@ -26,7 +28,7 @@ from towercost.errors import ScenarioError
 from towercost.scenario.schema import Scenario
 from towercost.select.ranking import optimize
 from towercost.study.fixed import Decisions
-from towercost.study.margin import Margin, rate_margin, trays_margin
+from towercost.study.margin import Margin, cheapest_margin, rate_margin, trays_margin
 from towercost.study.reoptimize import Reoptimized, reoptimize
 from towercost.study.sampling import Draws, draw
 from towercost.study.uncertainty import FixedStudy, study_design
@@ -84,6 +86,8 @@ def _chosen(case: Case, ranked: Designs, chosen: Chosen) -> tuple[Designs, str]:
         raise ScenarioError("a design of one's own needs the candidate, the trays and one of ratio and rate")
     flowsheet = SingleColumn(case)
     rate = chosen.rate if chosen.rate is not None else chosen.ratio * float(flowsheet.rate_min[a])
+    if not np.isfinite(rate):
+        raise ScenarioError(f"{chosen.agent!r} has no finite minimum rate: give the design's rate, not a ratio")
     shell = np.nan if chosen.diameter is None else chosen.diameter
     d = flowsheet.evaluate(np.array([a]), np.array([chosen.trays]), np.array([rate]), np.array([shell]))
     return d, "the design given"
@@ -121,8 +125,9 @@ def monte_carlo(scenario: Scenario, chosen: Chosen | None = None, *, samples: in
     clock["fixed"] = time.perf_counter() - t
     t = time.perf_counter()
     base = float(nominal.annualized[0])
-    margins = [trays_margin(scenario, case, design, draws, confidence, base),
-               rate_margin(scenario, case, design, draws, confidence, base)]
+    margins = [trays_margin(scenario, case, design, draws, confidence, base, progress=phase("margin in trays")),
+               rate_margin(scenario, case, design, draws, confidence, base, progress=phase("margin in rate")),
+               cheapest_margin(scenario, case, draws, confidence, base, progress=phase("cheapest margin design"))]
     clock["margin"] = time.perf_counter() - t
     reoptimized = None
     if reopt > 0:

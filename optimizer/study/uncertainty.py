@@ -149,7 +149,7 @@ def closed_form(scenario: Scenario, case: Case, design: Decisions, draws: Draws,
                 deterministic: bool) -> ClosedForm:
     """The exact probability of meeting every spec, where the spreads allow one (see the module notes)."""
     spreads = draws.spreads
-    k_spread, e_spread = spreads["k"], spreads["efficiency"]
+    k_spread = spreads["k"]
     if not draws.varies("k") and not draws.varies("efficiency"):
         return ClosedForm(1.0 if deterministic else 0.0, "no spread on K or efficiency: the nominal answer")
     if draws.varies("efficiency"):
