@@ -166,11 +166,13 @@ def test_partly_correlated_factors_or_sampled_efficiency_have_no_closed_form():
 
 @pytest.mark.parametrize("z, table", [(3.0, 0.99865), (2.0, 0.97725)])
 def test_standard_normal_table_value_through_the_sampled_design(z, table):
-    # Source: standard normal table, Phi(3.00) = 0.99865 (the 1350 ppm one-sided fallout of a Cp = 1 process,
-    # Montgomery, Introduction to Statistical Quality Control, 6th ed., Table 8.2, value from memory) and
-    # Phi(2.00) = 0.97725 (value from memory). ln K is normal: a design whose threshold K lies z standard
-    # deviations above the median meets its spec with probability Phi(z). The rate is chosen by the cascade's
-    # inverse; the probability then comes from the forward cascade of every sample and the closed form.
+    # Source: a standard normal table ("Standard Normal Probabilities", math.com tables): the area below
+    # z = -3.00 is 0.00135, so Phi(3.00) = 0.99865, the 1350 ppm one-sided fallout of a centred process of
+    # capability ratio Cp = 1 (D. C. Montgomery, Introduction to Statistical Quality Control, 6th ed.,
+    # Table 8.2, value from memory); Phi(2.00) = 0.97725 (value from memory). Here ln K has the normal spread:
+    # a design whose threshold K lies z standard deviations above the median K meets its spec with probability
+    # Phi(z). The rate is set by the cascade's inverse; the probability then comes from the forward cascade of
+    # every sample (the path of every fixed-design study) and from the closed form.
     sigma = 0.2
     scenario = one_solute(k_log_sd=sigma)
     case = prepare(scenario)

@@ -20,7 +20,7 @@ import dataclasses
 
 import numpy as np
 
-from towercost.design.costlines import Annual, Equipment, ItemCost, UseRow, Uses, annualize
+from towercost.design.costlines import Annual, Equipment, ItemCost, Uses, annualize
 from towercost.design.designs import Designs
 from towercost.models import economics as economics_models
 
@@ -34,14 +34,12 @@ def _column(value, n: int) -> np.ndarray:
 
 
 def _as_samples(equipment: Equipment, n: int) -> Equipment:
-    """Each design point's equipment rows as one sample of one design: arrays (n, 1)."""
+    """Each design point's equipment rows as one sample of one design: every numeric field (n, 1)."""
     rows = []
     for item in equipment.items:
-        values = {f.name: getattr(item, f.name) for f in dataclasses.fields(ItemCost)}
-        for name, value in values.items():
-            if isinstance(value, np.ndarray) or np.isscalar(value) and not isinstance(value, str):
-                values[name] = _column(value, n)
-        rows.append(ItemCost(**values))
+        numeric = {f.name: _column(getattr(item, f.name), n) for f in dataclasses.fields(ItemCost)
+                   if isinstance(getattr(item, f.name), (np.ndarray, float, int, bool, np.generic))}
+        rows.append(dataclasses.replace(item, **numeric))
     return Equipment(rows)
 
 
@@ -87,8 +85,8 @@ def annualize_points(designs: Designs, economics, *, index=None, interest=None, 
     if changes:
         eco = dataclasses.replace(eco, **{k: np.asarray(v, dtype=float) for k, v in changes.items()})
     factor = np.ones((n, len(designs.uses.specs))) if price_factor is None else np.asarray(price_factor, float)
-    uses = Uses([UseRow(row.spec, _column(row.rate, n), _column(row.unit_price, n) * factor[:, c:c + 1])
-                 for c, row in enumerate(designs.uses.rows)])
+    uses = Uses([dataclasses.replace(row, rate=_column(row.rate, n), unit_price=_column(row.unit_price, n)
+                                     * factor[:, c:c + 1]) for c, row in enumerate(designs.uses.rows)])
     annual = annualize(_as_samples(designs.equipment, n), uses, eco)
     squeeze = {f.name: getattr(annual, f.name) for f in dataclasses.fields(Annual)}
     for name, value in squeeze.items():
