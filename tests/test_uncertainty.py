@@ -394,6 +394,7 @@ def test_regret_is_never_negative_where_the_design_meets_the_spec():
     mc = monte_carlo(scenario, samples=400, seed=3, reoptimize_samples=6)
     ro = mc.reoptimized
     assert ro.samples == 6 and sum(w.count for w in ro.winners) == 6
+    assert sum(ro.candidate_shares().values()) == pytest.approx(1.0)
     for g in ro.regrets:
         assert math.isnan(g.regret_when_met) or g.regret_when_met >= -1e-6
         assert 0.0 <= g.meets <= 1.0 and 0.0 <= g.wins <= 1.0

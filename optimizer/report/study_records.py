@@ -88,6 +88,7 @@ def uncertainty_record(mc) -> dict:
         ro = mc.reoptimized
         record["reoptimized"] = {
             "samples": ro.samples, "alternatives_evaluated": ro.alternatives, "seconds": ro.seconds,
+            "candidate_share": {case.agents[a]: share for a, share in ro.candidate_shares().items()},
             "best_designs": [{"agent": case.agents[w.agent], "trays": w.trays, "diameter_m": w.diameter,
                               "samples": w.count, "share": w.share, "ratio_to_minimum_median": w.ratio_median,
                               "annualized_median_USD_per_yr": w.cost_median} for w in ro.winners],

@@ -140,6 +140,8 @@ def print_uncertainty(console: Console, mc) -> None:
             rest = sum(w.share for w in ro.winners[10:])
             console.print(f"  and {len(ro.winners) - 10} more families, {100 * rest:.1f} % of the samples",
                           highlight=False)
+        shares = ", ".join(f"{case.agents[a]} {100 * v:.1f} %" for a, v in ro.candidate_shares().items())
+        console.print(f"Best candidate per sample: {shares}", highlight=False)
         t = _table("Regret: extra annualized cost over each sample's best", "design", "meets as built",
                    "regret kUSD/yr", "operable", "regret, rate re-set", "its family best", right=(1, 2, 3, 4, 5))
         for g in ro.regrets:

@@ -80,6 +80,13 @@ class Reoptimized:
     alternatives: int               # evaluated in all
     seconds: float
 
+    def candidate_shares(self) -> dict[int, float]:
+        """Fraction of the samples whose best design uses each candidate (by index), most frequent first."""
+        shares: dict[int, float] = {}
+        for w in self.winners:
+            shares[w.agent] = shares.get(w.agent, 0.0) + w.share
+        return dict(sorted(shares.items(), key=lambda item: -item[1]))
+
 
 def _best_per_sample(sample, record: dict[str, np.ndarray], samples: int) -> dict[str, np.ndarray]:
     """For each sample, the entry of ``record`` first in tie order; cost inf where a sample has none."""
