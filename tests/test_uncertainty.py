@@ -149,16 +149,43 @@ def test_two_solutes_with_independent_factors_multiply():
     assert cf.probability == pytest.approx(np.prod([e.probability for e in each]), abs=0.03)
 
 
-def test_partly_correlated_factors_or_sampled_efficiency_have_no_closed_form():
+def test_sampled_efficiency_closed_form_by_quadrature_agrees_with_monte_carlo():
+    # Oracle: with the efficiency lognormal too (the demo's defaults, O'Connell re-evaluated at each K), the
+    # probability is the expectation over the efficiency factor of the K closed form (Gauss-Hermite).
+    scenario = towercost.load(ABSORBER)
+    result = towercost.optimize(scenario, top=1, method="scan")
+    case, best = result.case, Decisions.of(result.designs)
+    draws = draw(scenario.uncertainty, len(case.agents), case.solutes, 20_000, 5)
+    for design in (best, dataclasses.replace(best, trays=20), dataclasses.replace(best, trays=12, rate=best.rate * 1.3)):
+        study = study_design(scenario, case, design, draws, nominal_meets=True)
+        assert study.closed_form.method.startswith("quadrature")
+        assert three_standard_errors(study.every_spec, study.closed_form.probability)
+
+
+def test_held_k_gives_a_threshold_on_the_efficiency():
+    data = raw()
+    data["uncertainty"] = {"k": {"distribution": "fixed"}}
+    scenario = towercost.from_dict(data)
+    result = towercost.optimize(scenario, top=1, method="scan")
+    case, best = result.case, Decisions.of(result.designs)
+    draws = draw(scenario.uncertainty, len(case.agents), case.solutes, 20_000, 6)
+    study = study_design(scenario, case, dataclasses.replace(best, trays=18), draws, nominal_meets=True)
+    assert study.closed_form.method.startswith("threshold efficiency")
+    assert three_standard_errors(study.every_spec, study.closed_form.probability)
+
+
+def test_partly_correlated_factors_have_no_closed_form():
     scenario = towercost.load(ABSORBER)
     case, d, design = design_at(scenario, 16, 1.5)
-    draws = draw(scenario.uncertainty, len(case.agents), case.solutes, 10, 0)
-    assert not closed_form(scenario, case, design, draws, True).available
     data = raw()
     data["uncertainty"] = {"efficiency": {"distribution": "fixed"}, "k": {"log_sd": 0.2, "correlation": 0.5}}
     partly = towercost.from_dict(data)
     draws = draw(partly.uncertainty, len(case.agents), case.solutes, 10, 0)
     assert "correlated" in closed_form(partly, case, design, draws, True).method
+    data["uncertainty"] = {"efficiency": {"log_sd": 0.1, "shared": "none", "correlation": 0.3}}
+    apart = towercost.from_dict(data)
+    draws = draw(apart.uncertainty, len(case.agents), case.solutes, 10, 0)
+    assert not closed_form(apart, case, design, draws, True).available
 
 
 # --------------------------------------------------------------------------- a published figure through the same path

@@ -32,6 +32,13 @@ def _pct(value: float | None, signed: bool = True) -> str:
     return f"{100 * value:+.1f} %" if signed else f"{100 * value:.1f} %"
 
 
+def _prob(p: float) -> str:
+    """A probability in per cent, with more digits near 0 and 1 so that 0.9997 does not read as certain."""
+    if 0.0 < p < 0.01 or 0.99 < p < 1.0:
+        return f"{100 * p:.2f} %"
+    return f"{100 * p:.1f} %"
+
+
 def _design_text(case, designs, i: int = 0) -> str:
     return (f"{case.agents[int(designs.agent[i])]}, {int(designs.trays[i])} trays, {case.service.ratio_word} "
             f"{designs.ratio[i]:.3f}, D {designs.diameter[i]:.2f} m")
@@ -93,16 +100,16 @@ def print_uncertainty(console: Console, mc) -> None:
     console.print(t)
 
     e = fixed.every_spec
-    line = (f"Probability of meeting every spec: [bold]{100 * e.probability:.1f} %[/bold] "
+    line = (f"Probability of meeting every spec: [bold]{_prob(e.probability)}[/bold] "
             f"(standard error {100 * e.standard_error:.2f} %)")
     cf = fixed.closed_form
     line += (f"; closed form {100 * cf.probability:.2f} % ({cf.method})" if cf.available
              else f"; closed form: {cf.method}")
     console.print(line, highlight=False)
     for name, each in fixed.each_spec.items():
-        console.print(f"  {name} spec: {100 * each.probability:.1f} % (standard error {100 * each.standard_error:.2f} %)",
+        console.print(f"  {name} spec: {_prob(each.probability)} (standard error {100 * each.standard_error:.2f} %)",
                       highlight=False)
-    console.print(f"  every spec and every plant limit: {100 * fixed.within_limits.probability:.1f} %",
+    console.print(f"  every spec and every plant limit: {_prob(fixed.within_limits.probability)}",
                   highlight=False)
 
     labels = [f"p{p:g}" for p in PERCENTILES]
@@ -123,7 +130,7 @@ def print_uncertainty(console: Console, mc) -> None:
             t.add_row(what, m.reason, "", "", "", "")
             continue
         t.add_row(what, _design_text(case, m.nominal) + (f" ({m.reason})" if m.reason else ""),
-                  _pct(m.meets.probability, signed=False), _k(float(m.nominal.annualized[0])), _k(m.extra_cost),
+                  _prob(m.meets.probability), _k(float(m.nominal.annualized[0])), _k(m.extra_cost),
                   _pct(m.extra_cost / abs(base)))
     console.print(t)
 

@@ -18,8 +18,18 @@ closed form:
 * With lognormal K of ln-standard deviation sigma_j, P_j = Phi(ln f*_j / sigma_j)
   (absorber; 1 - that for a stripper); every spec together: the least P_j
   when one factor is shared (correlation 1), their product when the factors
-  are independent. Other correlations, or a spread on the efficiency, have
-  no closed form here, and the reason is reported.
+  are independent.
+* With the efficiency lognormal as well (one factor for the specified
+  solutes, drawn apart from K), the probability is the expectation of that
+  over the efficiency factor, by Gauss-Hermite quadrature, the thresholds
+  found by bisection at each node; with K held, the threshold is on the
+  efficiency factor itself (the spec holds above it).
+* Other correlations have no closed form here, and the reason is reported.
+
+The bisection searches ln f within ten standard deviations and a half of 0:
+far outside, an O'Connell efficiency re-evaluated at K falls again as K
+falls (the fit has its maximum near K M mu / rho = 0.08), and the outlet
+need not rise with K any more.
 """
 
 from __future__ import annotations
@@ -43,6 +53,9 @@ PERCENTILES = (5.0, 50.0, 95.0)
 
 #: Bisection steps on ln f for a threshold: the bracket [-40, 40] shrinks below 1e-15.
 BISECTION_STEPS = 70
+
+#: Gauss-Hermite nodes of the quadrature over an efficiency factor.
+QUADRATURE_NODES = 48
 
 
 @dataclass
@@ -118,31 +131,63 @@ def _inverse_thresholds(case: Case, design: Decisions, solutes: list[int], grows
     return needed / nominal if grows else nominal / needed
 
 
-def _bisected_thresholds(scenario: Scenario, case: Case, design: Decisions, solutes: list[int],
-                         grows: bool) -> np.ndarray:
-    """f*_j by bisection on ln f of the forward cascade, one solute's K changed at a time."""
-    count = len(solutes)
-    lo, hi = np.full(count, -40.0), np.full(count, 40.0)
+def _bisected_thresholds(scenario: Scenario, case: Case, design: Decisions, solutes: list[int], grows: bool,
+                         efficiency=None, *, on_efficiency: bool = False, span: float = 40.0) -> np.ndarray:
+    """f*_j by bisection on ln f of the forward cascade, one solute's K changed at a time.
+
+    ``efficiency`` (m, solutes) gives m sets of efficiency factors (one row per quadrature node); the
+    thresholds come back as (m, len(solutes)). With ``on_efficiency`` the factor bisected is the
+    efficiency's instead (K nominal): the spec holds above it. The threshold is sought for ln f
+    within +-``span``; a threshold outside comes back as the nearer end.
+    """
+    eff = np.ones((1, len(case.solutes))) if efficiency is None else np.asarray(efficiency, dtype=float)
+    count = eff.shape[0] * len(solutes)
+    lo, hi = np.full(count, -span), np.full(count, span)
     replica = replicate(case, np.full(count, design.agent))
     oconnell = oconnell_agents(scenario)[np.full(count, design.agent)]
     follows = scenario.uncertainty.efficiency_follows_k
-    column = np.array(solutes)
+    rows = np.arange(count)
+    column = np.tile(np.array(solutes), eff.shape[0])
+    factors = np.repeat(eff, len(solutes), axis=0)
 
     def meets(log_f):
         k = np.ones(replica.k_value.shape)
-        k[np.arange(count), column] = np.exp(log_f)
-        varied = with_separation(replica, oconnell, k=k, follows_k=follows)
-        outlet = cascade.outlet(varied, np.arange(count), design.trays, design.rate)[0]
-        return meets_each_spec(case, outlet)[np.arange(count), column]
+        e = factors
+        if on_efficiency:
+            e = np.ones(replica.k_value.shape)
+            if case.murphree is None:
+                e[rows, column] = np.exp(log_f)
+            else:                       # one Murphree efficiency for every solute
+                e = np.broadcast_to(np.exp(log_f)[:, None], e.shape)
+        else:
+            k[rows, column] = np.exp(log_f)
+        varied = with_separation(replica, oconnell, k=k, efficiency=e, follows_k=follows)
+        outlet = cascade.outlet(varied, rows, design.trays, design.rate)[0]
+        return meets_each_spec(case, outlet)[rows, column]
 
     for _ in range(BISECTION_STEPS):
         mid = 0.5 * (lo + hi)
         ok = meets(mid)
-        # the spec holds above the threshold when the factor grows with K, below it otherwise
-        above = ok if grows else ~ok
+        # the spec holds above the threshold when the factor grows with K (or for an efficiency), below otherwise
+        above = ok if (grows or on_efficiency) else ~ok
         hi = np.where(above, mid, hi)
         lo = np.where(above, lo, mid)
-    return np.exp(0.5 * (lo + hi))
+    return np.exp(0.5 * (lo + hi)).reshape(eff.shape[0], len(solutes))
+
+
+def _span(sigma) -> float:
+    """Half-width in ln f searched for a threshold: ten standard deviations and a half (beyond, the
+    probability is 0 or 1 to double precision). A wider search would leave the range where an
+    O'Connell efficiency re-evaluated at K keeps the outlet rising with K (the fit has its maximum
+    at K M mu / rho near 0.08)."""
+    return 10.0 * float(np.max(sigma, initial=0.0)) + 0.5
+
+
+def _combine(thresholds, sigma, grows: bool, shared: bool) -> np.ndarray:
+    """Probability of meeting every spec for thresholds (..., solutes) on lognormal K factors."""
+    below = probability_lognormal_below(thresholds, 1.0, sigma)
+    each = below if not grows else 1.0 - below
+    return np.min(each, axis=-1) if shared else np.prod(each, axis=-1)
 
 
 def closed_form(scenario: Scenario, case: Case, design: Decisions, draws: Draws,
@@ -152,8 +197,6 @@ def closed_form(scenario: Scenario, case: Case, design: Decisions, draws: Draws,
     k_spread = spreads["k"]
     if not draws.varies("k") and not draws.varies("efficiency"):
         return ClosedForm(1.0 if deterministic else 0.0, "no spread on K or efficiency: the nominal answer")
-    if draws.varies("efficiency"):
-        return ClosedForm(None, "none: the efficiency varies as well as K (a two-dimensional spread)")
     solutes = spec_solutes(case, design.agent)
     if not solutes:
         return ClosedForm(1.0, "no spec asks for removal")
@@ -164,6 +207,34 @@ def closed_form(scenario: Scenario, case: Case, design: Decisions, draws: Draws,
         return ClosedForm(None, f"none: the K factors of the {len(solutes)} specified solutes are correlated "
                                 f"with {k_spread.correlation:g}")
     grows = _grows_with_k(case, design)
+    if draws.varies("efficiency"):
+        e_spread = spreads["efficiency"]
+        one = case.murphree is not None or len(solutes) == 1 or (
+            e_spread.shared in ("candidate", "all") and e_spread.correlation == 1.0)
+        apart = case.murphree is None and (e_spread.shared in ("none", "solute") or e_spread.correlation == 0.0)
+        sigma_e = np.array([e_spread.by_solute.get(case.solutes[s], e_spread.log_sd) for s in solutes])
+        if case.murphree is not None:
+            sigma_e = np.full(sigma_e.shape, e_spread.by_solute.get(case.solutes[0], e_spread.log_sd))
+        if not draws.varies("k") and (one or apart):
+            thresholds = _bisected_thresholds(scenario, case, design, solutes, grows, on_efficiency=True,
+                                              span=_span(sigma_e))[0]
+            value = float(_combine(thresholds, sigma_e, True, one))
+            return ClosedForm(value, "threshold efficiency by bisection on the Kremser cascade (K held)",
+                              {case.solutes[s]: float(t) for s, t in zip(solutes, thresholds)})
+        if not one:
+            return ClosedForm(None, "none: the efficiencies of the specified solutes vary by more than one factor")
+        # E[P(meet | efficiency factor)] over the efficiency's standard normal deviate, by Gauss-Hermite.
+        z, weight = np.polynomial.hermite_e.hermegauss(QUADRATURE_NODES)
+        every = np.array([e_spread.by_solute.get(s, e_spread.log_sd) for s in case.solutes])
+        if case.murphree is not None:   # one Murphree factor per sample, that of the first solute
+            every = np.full(every.shape, every[0])
+        nodes = _bisected_thresholds(scenario, case, design, solutes, grows, np.exp(np.outer(z, every)),
+                                     span=_span(sigma))
+        value = float(np.dot(weight, _combine(nodes, sigma, grows, shared)) / math.sqrt(2.0 * math.pi))
+        nominal = _bisected_thresholds(scenario, case, design, solutes, grows, span=_span(sigma))[0]
+        method = (f"quadrature over the efficiency factor ({QUADRATURE_NODES} Gauss-Hermite nodes), threshold K "
+                  "by bisection on the Kremser cascade at each")
+        return ClosedForm(value, method, {case.solutes[s]: float(t) for s, t in zip(solutes, nominal)})
     a = design.agent
     clean = np.all(case.lean[a, solutes] == 0.0)
     follows = scenario.uncertainty.efficiency_follows_k and bool(oconnell_agents(scenario)[a])
@@ -171,11 +242,9 @@ def closed_form(scenario: Scenario, case: Case, design: Decisions, draws: Draws,
         thresholds = _inverse_thresholds(case, design, solutes, grows)
         method = "Kremser inverse (kremser.factor_for_fraction) for the threshold K"
     else:
-        thresholds = _bisected_thresholds(scenario, case, design, solutes, grows)
+        thresholds = _bisected_thresholds(scenario, case, design, solutes, grows, span=_span(sigma))[0]
         method = "threshold K by bisection on the Kremser cascade"
-    below = probability_lognormal_below(thresholds, 1.0, sigma)
-    each = below if not grows else 1.0 - below
-    value = float(np.min(each)) if shared else float(np.prod(each))
+    value = float(_combine(thresholds, sigma, grows, shared))
     method += "; one shared factor" if shared and len(solutes) > 1 else ""
     method += "; independent factors" if not shared else ""
     return ClosedForm(value, method, {case.solutes[s]: float(t) for s, t in zip(solutes, thresholds)})
