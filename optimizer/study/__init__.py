@@ -5,9 +5,11 @@
 ``pricing``      the annualized cost of design points, each under its own sampled economics
 ``fixed``        a fixed design over the samples: outlets, spec met, annualized cost
 ``uncertainty``  the probability of meeting every spec, with its standard error and closed form
-``margin``       the fewest trays, or the least rate, that meet every spec with a chosen probability
+``margin``       the fewest trays, the least rate, or the cheapest design meeting every spec with a chosen
+                 probability
 ``reoptimize``   the best design of each sample: how often each wins, and the regret of the top designs
 ``sensitivity``  one input at a time: the fixed design's cost and spec, and the re-optimized best
+``montecarlo``   the whole Monte Carlo study of the ``uncertainty`` command, on one set of draws
 
 Every figure comes from ``towercost.design`` and ``towercost.models``; the
 studies only vary the case's inputs and count.
