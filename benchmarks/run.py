@@ -8,6 +8,8 @@ The modules (each also runs alone and prints its own rows):
   bench_optimizer  space, model, scan, in-process and whole-process model/scan ratios, a plain loop
   bench_scaling    10**3 to 10**7 alternatives: model and scan time, their ratio, peak memory
   bench_site       a four-unit site's joint choice; a batch of 100 scenarios with 1 and 2 workers
+  bench_uncertainty  Monte Carlo of a fixed design (10**4 to 10**6 samples), margins, re-optimization per
+                   sample, the sensitivity study, the two study commands
 
 Figures are wall-clock seconds (time.perf_counter): best of several calls
 where a call is cheap, medians of alternating runs where two things are
@@ -31,8 +33,9 @@ import bench_kremser  # noqa: E402
 import bench_optimizer  # noqa: E402
 import bench_scaling  # noqa: E402
 import bench_site  # noqa: E402
+import bench_uncertainty  # noqa: E402
 
-MODULES = (bench_kremser, bench_evaluate, bench_optimizer, bench_scaling, bench_site)
+MODULES = (bench_kremser, bench_evaluate, bench_optimizer, bench_scaling, bench_site, bench_uncertainty)
 
 
 def cpu_model() -> str:

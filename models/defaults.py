@@ -67,3 +67,29 @@ ELECTRICITY = 0.08 / 3.6e6
 
 #: Near-optimal band: designs within this fraction of the best annualized cost [-].
 MARGIN = 0.03
+
+# --------------------------------------------------------------------------- uncertainty and sensitivity studies
+
+#: Spread of K-values as the standard deviation of ln K [-]: 0.20 (about +-20 % for one standard deviation),
+#: common practice for a Henry's-law constant or an estimated activity coefficient from one source.
+K_LOG_SD = 0.20
+
+#: Spread of tray efficiencies as the standard deviation of ln E [-]: 0.15, common practice for a
+#: correlation such as O'Connell's.
+EFFICIENCY_LOG_SD = 0.15
+
+#: Agent, utility and credit prices: triangular factors (least, most likely, highest) on the nominal price [-],
+#: common practice for a study estimate (prices more likely to rise than fall).
+PRICE_TRIANGLE = (0.80, 1.00, 1.25)
+
+#: Cost index: normal, standard deviation as a fraction of the nominal index [-]; common practice.
+INDEX_SD = 0.05
+
+#: Monte Carlo samples of a fixed design, samples re-optimized, and the probability a margin design must
+#: meet every spec with [-]: common practice.
+SAMPLES = 10_000
+REOPTIMIZE_SAMPLES = 200
+CONFIDENCE = 0.90
+
+#: One-at-a-time change of each input in a sensitivity study, +- fraction of its nominal value [-]; common practice.
+SENSITIVITY_CHANGE = 0.20

@@ -11,6 +11,8 @@ thin layer over the same calls)::
     sheet = towercost.evaluate(scenario, "light wash oil", trays=16, ratio=1.5)
     sheet.to_frame()
     curve = towercost.curve(scenario, "light wash oil")
+    study = towercost.uncertainty(scenario, samples=10_000, seed=1)   # Monte Carlo of the best design
+    tornado = towercost.sensitivity(scenario)                        # one input at a time
 
 The relations themselves are in ``towercost.models`` (Kremser cascades,
 equilibrium, efficiency, hydraulics, vessels, costing, economics).
@@ -21,7 +23,8 @@ function is called.
 
 from __future__ import annotations
 
-__all__ = ["load", "from_dict", "optimize", "evaluate", "curve", "ScenarioError", "InfeasibleSpec", "__version__"]
+__all__ = ["load", "from_dict", "optimize", "evaluate", "curve", "sensitivity", "uncertainty", "ScenarioError",
+           "InfeasibleSpec", "__version__"]
 
 from towercost.errors import InfeasibleSpec, ScenarioError  # noqa: E402 - light module
 
@@ -82,6 +85,35 @@ def curve(scenario, solvent: str):
     from towercost.select.ranking import cost_curve
 
     return cost_curve(_as_scenario(scenario), solvent)
+
+
+def sensitivity(scenario, *, change: float | None = None):
+    """Each input changed down and up, one at a time: the best design's cost and spec, and the new best.
+
+    ``change`` (a fraction) replaces the scenario's ``[uncertainty] change`` for the inputs it does not
+    set one for. Returns a ``towercost.study.sensitivity.Sensitivity`` (rows largest swing first).
+    """
+    from towercost.study.sensitivity import sensitivity as _sensitivity
+
+    return _sensitivity(_as_scenario(scenario), change=change)
+
+
+def uncertainty(scenario, *, design: int = 1, solvent: str | None = None, trays: int | None = None,
+                ratio: float | None = None, rate: float | None = None, samples: int | None = None,
+                seed: int | None = None, confidence: float | None = None, reoptimize: int | None = None):
+    """Monte Carlo of a design under the scenario's ``[uncertainty]`` spreads.
+
+    The design is the ``design``-th of the nominal ranking, or one's own (``solvent``, ``trays`` and
+    ``ratio`` to the nominal minimum or ``rate`` in mol/s). ``samples``, ``seed``, ``confidence`` and
+    ``reoptimize`` (samples re-optimized) override the scenario's. Returns a
+    ``towercost.study.montecarlo.MonteCarlo``: ``.fixed`` (probability of meeting every spec with its
+    standard error and closed form, percentiles), ``.margins``, ``.reoptimized``.
+    """
+    from towercost.study.montecarlo import Chosen, monte_carlo
+
+    chosen = Chosen(rank=design) if solvent is None else Chosen(None, solvent, trays, ratio, rate)
+    return monte_carlo(_as_scenario(scenario), chosen, samples=samples, seed=seed, confidence=confidence,
+                       reoptimize_samples=reoptimize)
 
 
 def _as_scenario(scenario):

@@ -548,6 +548,186 @@ def schema(
         typer.echo(f"wrote {out}")
 
 
+# --------------------------------------------------------------------------- sensitivity, uncertainty
+
+
+def _phase_progress():
+    """A progress callback ``(phase, done, total)``: a rich bar on stderr once a run passes about a second."""
+    import time
+
+    state: dict = {"start": time.perf_counter(), "bar": None, "phase": None}
+
+    def update(phase: str, done: int, total: int) -> None:
+        if state["bar"] is None:
+            if time.perf_counter() - state["start"] < 1.0 or done >= total:
+                return
+            from rich.console import Console
+            from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
+
+            bar = Progress(TextColumn("{task.description}"), BarColumn(), TextColumn("{task.percentage:>3.0f} %"),
+                           TimeRemainingColumn(), console=Console(stderr=True), transient=True)
+            bar.start()
+            state["bar"] = bar
+        bar = state["bar"]
+        if state["phase"] != phase:
+            state["phase"], state["task"] = phase, bar.add_task(phase, total=total)
+        bar.update(state["task"], completed=done, total=total)
+        if done >= total:
+            bar.remove_task(state["task"])
+            state["phase"] = None
+
+    def stop() -> None:
+        if state["bar"] is not None:
+            state["bar"].stop()
+
+    update.stop = stop
+    return update
+
+
+def _write_study(out: Path, stem: str, force: bool, record_text: Optional[str], png: Optional[bytes]) -> list:
+    from towercost.report import files
+    from towercost.report.study_plots import write_png
+
+    written = []
+    if record_text is not None:
+        written.append(_run(lambda: files.write_new(out / f"{stem}.json", record_text, force=force), out))
+    if png is not None:
+        written.append(_run(lambda: write_png(out / f"{stem}.png", png, force=force), out))
+    return written
+
+
+@app.command()
+def sensitivity(
+    scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
+    change: Optional[float] = typer.Option(None, "--change", help="Change of every input not set in "
+                                           "[uncertainty.changes], +- fraction (default [uncertainty] change, 0.2)."),
+    as_json: bool = typer.Option(False, "--json", help="Print one JSON object instead of tables."),
+    save: bool = typer.Option(False, "--save", help="Write the JSON report into the output folder."),
+    plot: bool = typer.Option(False, "--plot", help="Write the tornado plot (PNG) into the output folder."),
+    out: Path = typer.Option(DEFAULT_OUT, "--out", help="Output folder for --save and --plot."),
+    force: bool = typer.Option(False, "--force", help="Replace files that already exist."),
+) -> None:
+    """One input at a time (prices, index, interest, K per solute, efficiency, feed): the tornado of the best design."""
+    from towercost.report import records, study_records, study_terminal
+
+    _check("--change", change, 0.0, 1.0, "a fraction in (0, 1)")
+    data = _load(scenario)
+    progress = _phase_progress()
+
+    def call():
+        from towercost.study.sensitivity import sensitivity as study
+
+        try:
+            return study(data, change=change, progress=lambda done, total: progress("changing inputs", done, total))
+        finally:
+            progress.stop()
+
+    result = _run(call, out)
+    record = study_records.sensitivity_record(result) if (as_json or save) else None
+    png = None
+    if plot:
+        from towercost.report.study_plots import tornado_png
+
+        png = _run(lambda: tornado_png(result), out)
+    written = _write_study(out, f"{scenario.stem}-sensitivity", force, records.to_json(record) if save else None,
+                           png)
+    if as_json:
+        typer.echo(records.to_json(record))
+        return
+    from towercost.report.terminal import console as make_console
+
+    console = make_console()
+    study_terminal.print_sensitivity(console, result)
+    for path in written:
+        console.print(f"wrote {path}", highlight=False)
+
+
+@app.command()
+def uncertainty(
+    scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
+    design: Optional[int] = typer.Option(None, "--design", help="Rank of the design in the nominal ranking "
+                                         "(default 1, the best)."),
+    solvent: Optional[str] = typer.Option(None, "--solvent", help="Study a design of one's own: its candidate "
+                                          "(with --trays and --ratio or --rate)."),
+    trays: Optional[int] = typer.Option(None, "--trays", help="Real trays of the design of one's own."),
+    ratio: Optional[float] = typer.Option(None, "--ratio", help="Its rate as a multiple of the nominal minimum."),
+    rate_: Optional[str] = typer.Option(None, "--rate", help="Its agent molar rate, e.g. '95 kmol/h'."),
+    samples: Optional[int] = typer.Option(None, "--samples", help="Monte Carlo samples (default [uncertainty] "
+                                          "samples, 10,000)."),
+    seed: Optional[int] = typer.Option(None, "--seed", help="Seed of the random draws (default [uncertainty] "
+                                       "seed, 0)."),
+    confidence: Optional[float] = typer.Option(None, "--confidence", help="Probability a margin design meets "
+                                               "every spec with (default 0.9)."),
+    reoptimize: Optional[int] = typer.Option(None, "--reoptimize", help="Samples re-optimized, each a whole "
+                                             "design space (default [uncertainty] reoptimize, 200; 0: none)."),
+    as_json: bool = typer.Option(False, "--json", help="Print one JSON object instead of tables."),
+    save: bool = typer.Option(False, "--save", help="Write the JSON report into the output folder."),
+    plot: bool = typer.Option(False, "--plot", help="Write the distributions plot (PNG) into the output folder."),
+    out: Path = typer.Option(DEFAULT_OUT, "--out", help="Output folder for --save and --plot."),
+    force: bool = typer.Option(False, "--force", help="Replace files that already exist."),
+) -> None:
+    """Monte Carlo on K-values, efficiencies and prices: probability of meeting the spec, margin, regret."""
+    from towercost.report import records, study_records, study_terminal
+    from towercost.scenario.units import UnitError, to_si
+
+    own = solvent is not None or trays is not None or ratio is not None or rate_ is not None
+    if own and design is not None:
+        _fail("give --design or a design of one's own (--solvent, --trays, --ratio or --rate), not both")
+    if own and (solvent is None or trays is None or (ratio is None) == (rate_ is None)):
+        _fail("a design of one's own needs --solvent, --trays and exactly one of --ratio and --rate")
+    if design is not None and design < 1:
+        _fail(f"--design must be a rank >= 1, got {design}")
+    if trays is not None and trays < 1:
+        _fail(f"--trays must be a whole number >= 1, got {trays}")
+    if samples is not None and not 1 <= samples <= 10_000_000:
+        _fail(f"--samples must be a whole number from 1 to 10,000,000, got {samples}")
+    if seed is not None and seed < 0:
+        _fail(f"--seed must be a whole number >= 0, got {seed}")
+    if reoptimize is not None and not 0 <= reoptimize <= 100_000:
+        _fail(f"--reoptimize must be a whole number from 0 to 100,000, got {reoptimize}")
+    _check("--confidence", confidence, 0.0, 1.0, "a probability in (0, 1)")
+    _check("--ratio", ratio, 0.0, math.inf, "a number > 0")
+    molar = None
+    if rate_ is not None:
+        try:
+            molar = to_si(rate_, "mol/s", what="--rate")
+        except UnitError as exc:
+            _fail(str(exc))
+        if not (math.isfinite(molar) and molar > 0):
+            _fail(f"--rate must be a flow > 0, got {rate_!r}")
+    data = _load(scenario)
+    progress = _phase_progress()
+
+    def call():
+        from towercost.study.montecarlo import Chosen, monte_carlo
+
+        chosen = Chosen(rank=design or 1) if not own else Chosen(None, solvent, trays, ratio, molar)
+        try:
+            return monte_carlo(data, chosen, samples=samples, seed=seed, confidence=confidence,
+                               reoptimize_samples=reoptimize, progress=progress)
+        finally:
+            progress.stop()
+
+    result = _run(call, out)
+    record = study_records.uncertainty_record(result) if (as_json or save) else None
+    png = None
+    if plot:
+        from towercost.report.study_plots import uncertainty_png
+
+        png = _run(lambda: uncertainty_png(result), out)
+    written = _write_study(out, f"{scenario.stem}-uncertainty", force, records.to_json(record) if save else None,
+                           png)
+    if as_json:
+        typer.echo(records.to_json(record))
+        return
+    from towercost.report.terminal import console as make_console
+
+    console = make_console()
+    study_terminal.print_uncertainty(console, result)
+    for path in written:
+        console.print(f"wrote {path}", highlight=False)
+
+
 def main() -> None:  # pragma: no cover - console entry point
     app()
 

@@ -14,6 +14,9 @@ unit given below):
                     each with ``[...k]`` K-values per solute and its prices
 ``[column]``        tray type, spacing, flood fraction, efficiency, material, limits
 ``[economics]``     interest, life, hours, utility prices, cost index, factors, caps
+``[uncertainty]``   optional: how far each input may be off (distributions of factors on the
+                    nominal K-values, efficiencies, prices and cost index), samples, seed,
+                    confidence, and the one-at-a-time changes of a sensitivity study
 
 Units are converted here, once; ``towercost.models`` never sees a unit
 string. Defaults come from ``towercost.models.defaults``, the same values
@@ -276,6 +279,119 @@ class Economics(_Table):
     margin: Annotated[float, Field(gt=0, lt=1)] = defaults.MARGIN  # near-optimal band, fraction above best
 
 
+#: What a [uncertainty] distribution may share one factor across (K-values and efficiencies).
+SHARED = ("candidate", "solute", "all", "none")
+
+#: Inputs a sensitivity study changes one at a time; ``k[solute]`` names the K-values of one solute.
+SENSITIVITY_INPUTS = ("agent_price", "disposal", "electricity", "steam", "cooling_water", "credit", "cost_index",
+                      "interest", "k", "efficiency", "feed_flow", "inlet")
+
+
+class Spread(_Table):
+    """How far one input may be off: a factor on its nominal value, drawn afresh for every sample.
+
+    ``lognormal``: ln(factor) normal with mean 0 (median factor 1) and standard deviation ``log_sd``;
+    ``normal``: factor normal with mean 1 and standard deviation ``sd`` (cut at 0);
+    ``triangular``: factor between ``low`` and ``high``, most likely ``mode``; ``fixed``: factor 1.
+    For K-values and efficiencies, ``shared`` says what one factor is common to ("candidate": all
+    solutes of a candidate; "solute": one solute in every candidate; "all"; "none": each pair its own)
+    and ``correlation`` how strongly (1: the same factor); ``by_solute`` sets ``log_sd`` per solute.
+    """
+
+    distribution: Literal["lognormal", "normal", "triangular", "fixed"]
+    log_sd: NonNegative | None = None
+    sd: NonNegative | None = None
+    low: NonNegative | None = None
+    mode: NonNegative | None = None
+    high: NonNegative | None = None
+    shared: Literal["candidate", "solute", "all", "none"] = "candidate"
+    correlation: Annotated[float, Field(ge=0, le=1)] = 1.0
+    by_solute: dict[str, NonNegative] = {}
+
+    @model_validator(mode="before")
+    @classmethod
+    def _infer_distribution(cls, data: Any):
+        """``distribution`` may be left out where the parameters say it: log_sd, sd, or low/mode/high."""
+        if isinstance(data, dict) and "distribution" not in data:
+            given = {"lognormal": "log_sd" in data, "normal": "sd" in data,
+                     "triangular": any(k in data for k in ("low", "mode", "high"))}
+            kinds = [k for k, v in given.items() if v]
+            if len(kinds) == 1:
+                return {**data, "distribution": kinds[0]}
+        return data
+
+    @model_validator(mode="after")
+    def _parameters(self):
+        needs = {"lognormal": ("log_sd",), "normal": ("sd",), "triangular": ("low", "mode", "high"), "fixed": ()}
+        wanted = needs[self.distribution]
+        missing = [n for n in wanted if getattr(self, n) is None]
+        if missing:
+            raise ValueError(f"a {self.distribution} spread needs {', '.join(missing)}")
+        extra = [n for n in ("log_sd", "sd", "low", "mode", "high") if n not in wanted and getattr(self, n) is not None]
+        if extra:
+            raise ValueError(f"{', '.join(extra)} does not apply to a {self.distribution} spread")
+        if self.distribution == "triangular" and not (self.low <= self.mode <= self.high):
+            raise ValueError(f"triangular factors must have low <= mode <= high, got {self.low:g}, {self.mode:g}, "
+                             f"{self.high:g}")
+        if self.by_solute and self.distribution != "lognormal":
+            raise ValueError("by_solute applies to a lognormal spread only")
+        return self
+
+
+def _lognormal(log_sd: float) -> Spread:
+    return Spread(distribution="lognormal", log_sd=log_sd)
+
+
+def _price_spread() -> Spread:
+    low, mode, high = defaults.PRICE_TRIANGLE
+    return Spread(distribution="triangular", low=low, mode=mode, high=high)
+
+
+ChangePair = tuple[Annotated[float, Field(gt=-1, lt=0)], Annotated[float, Field(gt=0, allow_inf_nan=False)]]
+
+
+class Uncertainty(_Table):
+    """The optional ``[uncertainty]`` table: how far the inputs may be off, and how the studies run.
+
+    Every spread is a factor on the scenario's own (nominal) value. Defaults (common practice, see
+    ``towercost.models.defaults``): K lognormal, ln-standard deviation 0.20, one factor per
+    candidate; efficiency lognormal 0.15, one factor per candidate; agent, disposal, utility and
+    credit prices triangular (0.80, 1.00, 1.25); cost index normal, standard deviation 0.05;
+    interest fixed.
+    """
+
+    samples: Annotated[int, Field(ge=1, le=10_000_000)] = defaults.SAMPLES
+    seed: Annotated[int, Field(ge=0)] = 0
+    confidence: Annotated[float, Field(gt=0, lt=1)] = defaults.CONFIDENCE  # a margin design meets every spec so often
+    reoptimize: Annotated[int, Field(ge=0, le=100_000)] = defaults.REOPTIMIZE_SAMPLES  # samples re-optimized
+    efficiency_follows_k: bool = True  # O'Connell efficiencies re-evaluated at each sampled K
+    change: Annotated[float, Field(gt=0, lt=1)] = defaults.SENSITIVITY_CHANGE  # sensitivity: +- fraction
+    changes: dict[str, Annotated[float, Field(gt=0, lt=1)] | ChangePair] = {}  # per input: +- c, or [low, high]
+    k: Spread = _lognormal(defaults.K_LOG_SD)
+    efficiency: Spread = _lognormal(defaults.EFFICIENCY_LOG_SD)
+    agent_price: Spread = _price_spread()
+    disposal: Spread = _price_spread()
+    electricity: Spread = _price_spread()
+    steam: Spread = _price_spread()
+    cooling_water: Spread = _price_spread()
+    credit: Spread = _price_spread()
+    cost_index: Spread = Spread(distribution="normal", sd=defaults.INDEX_SD)
+    interest: Spread = Spread(distribution="fixed")
+
+    @model_validator(mode="after")
+    def _kinds(self):
+        for name in ("k", "efficiency"):
+            if getattr(self, name).distribution not in ("lognormal", "fixed"):
+                what = "K-values" if name == "k" else "tray efficiencies"
+                raise ValueError(f"{name}: the spread of {what} is lognormal or fixed")
+        for name in self.changes:
+            base = name.split("[", 1)[0]
+            if base not in SENSITIVITY_INPUTS or (name != base and not (base == "k" and name.endswith("]"))):
+                raise ValueError(f"changes: {name!r} is not an input; use one of {', '.join(SENSITIVITY_INPUTS)} "
+                                 "or k[solute]")
+        return self
+
+
 class Scenario(_Table):
     case: CaseHeader
     feed: Feed
@@ -284,6 +400,7 @@ class Scenario(_Table):
     stripping_gas: list[Agent] = []
     column: Column = Column()
     economics: Economics = Economics()
+    uncertainty: Uncertainty = Uncertainty()
 
     @property
     def agents(self) -> list[Agent]:
@@ -335,4 +452,17 @@ class Scenario(_Table):
                 raise ValueError(f"[economics] credit for {solute!r} needs solute_molar_mass.{solute}")
         return self
 
-
+    @model_validator(mode="after")
+    def _uncertainty_solutes(self):
+        solutes = self.solutes
+        u = self.uncertainty
+        for table in ("k", "efficiency"):
+            for solute in getattr(u, table).by_solute:
+                if solute not in solutes:
+                    raise ValueError(f"[uncertainty.{table}] by_solute: {solute!r} is not in [feed.composition] "
+                                     f"({', '.join(solutes)})")
+        for name in u.changes:
+            if name.startswith("k[") and name[2:-1] not in solutes:
+                raise ValueError(f"[uncertainty] changes: {name!r} names no solute of [feed.composition] "
+                                 f"({', '.join(solutes)})")
+        return self
