@@ -138,7 +138,7 @@ def test_wider_shell_runs_further_from_flood():
     first = np.flatnonzero(space.least)[0]
     same = np.flatnonzero((d.agent == d.agent[first]) & (d.trays == d.trays[first]) & (d.rate == d.rate[first]))
     order = same[np.argsort(d.diameter[same])]
-    assert order.size == 1 + case.larger_diameters
+    assert order.size == SingleColumn(case).diameters_per_rate()
     assert np.all(np.diff(d.fraction_of_flood[order]) < 0)
     assert np.all(np.diff(d.pressure_drop[order]) < 0)
     assert math.isclose(d.diameter[order[1]] - d.diameter[order[0]], 0.1524, rel_tol=1e-12)

@@ -1,4 +1,4 @@
-"""The one-column flowsheet: one absorber or stripper with its pump and blower.
+"""The one-column flowsheet: one absorber or stripper with its pump, its gas mover and their motors.
 
 A design is a candidate agent, a count of real trays, an agent rate and a
 shell diameter. ``SingleColumn.evaluate`` prices any set of design points
@@ -6,8 +6,8 @@ exactly, all in one call (numpy broadcasting):
 
     cascade (towercost.design.cascade)  ->  outlets, factors, stages
     internals (towercost.design.internals)  ->  diameter, height, pressure drop
-    vessel (towercost.models.vessel)  ->  design pressure, wall, weights
-    machines (towercost.models.economics)  ->  pump and blower power
+    vessel (towercost.models.vessel)  ->  design pressure, shell and head walls, weights
+    machines (towercost.models.economics)  ->  pump and blower power, priced with their motors
     cost lines (towercost.design.costlines)  ->  capital, operating, annualized
     limits (towercost.design.limits)  ->  within_limits
 
@@ -31,7 +31,7 @@ import numpy as np
 from towercost.design import cascade
 from towercost.design.case import Case
 from towercost.design.costlines import (AGENT, COOLING, DISPOSAL, ELECTRICITY, STEAM, Equipment, ItemSpec, Uses,
-                                        annualize, credit_spec, price_item)
+                                        annualize, credit_spec, price_gas_mover, price_item)
 from towercost.design.designs import Designs
 from towercost.design.internals import Loads, Trays
 from towercost.design.limits import RATIO_TOLERANCE, limit_table, limits_met
@@ -44,7 +44,29 @@ PLATE = {"carbon_steel": "SA-516-70", "ss304": "SA-240-304", "ss316": "SA-240-31
 
 SHELL = ItemSpec("tower_shell", "T-101", "tower shell", "vessel_vertical")
 PUMP = ItemSpec("pump", "P-101", "liquid feed pump", "pump_centrifugal")
-BLOWER = ItemSpec("blower", "K-101", "gas blower", "blower_centrifugal")
+#: The gas mover: a radial fan within the fan row's pressure range, a blower priced by fluid power above it.
+FAN = ItemSpec("blower", "K-101", "gas fan (radial, priced by inlet flow)", "blower_centrifugal")
+BLOWER = ItemSpec("blower", "K-101", "gas blower (centrifugal, priced by fluid power)", "blower_centrifugal_power")
+
+#: Cost-table row of an electric motor drive, by enclosure ([column] drive_enclosure).
+DRIVE_ROWS = {"totally_enclosed": "drive_electric_enclosed", "explosion_proof": "drive_electric_explosion_proof",
+              "open_drip_proof": "drive_electric_open"}
+
+
+def drive_specs(enclosure: str) -> tuple[ItemSpec, ItemSpec]:
+    """The motors of the pump and of the gas mover, priced on the shaft power they deliver."""
+    words = enclosure.replace("_", " ").replace("open drip proof", "open/drip-proof")
+    row = DRIVE_ROWS[enclosure]
+    return (ItemSpec("pump_drive", "PM-101", f"pump motor ({words})", row),
+            ItemSpec("blower_drive", "KM-101", f"gas mover motor ({words})", row))
+
+
+def shell_spec(case: Case) -> ItemSpec:
+    """The tower shell row: a new shell, or an existing one charged only its modification allowance."""
+    if case.shell_diameter is None:
+        return SHELL
+    return ItemSpec(SHELL.key, SHELL.tag, f"tower shell, existing (modifications at {100 * case.shell_modification:g} % "
+                    "of a new shell)", SHELL.correlation)
 
 #: Rate grid points closer than this (relative) to the least rate are not offered again.
 SAME_RATE = 1e-9
@@ -87,6 +109,8 @@ class SingleColumn:
         self.case = case
         self.service = case.service
         self.internals = Trays(case.tray, case.tray_spacing, case.flood_fraction, case.material)
+        self.shell = shell_spec(case)
+        self.pump_drive, self.blower_drive = drive_specs(case.drive_enclosure)
         #: least rate of each agent with unlimited stages [mol/s]: a property of the agent alone
         self.rate_min = cascade.minimum_rate(case, np.arange(len(case.agents)))
 
@@ -107,7 +131,11 @@ class SingleColumn:
 
     def diameters_per_rate(self) -> int:
         case = self.case
-        return 1 if case.shell_diameter is not None else 1 + case.larger_diameters
+        return 1 if case.shell_diameter is not None else 1 + self.larger_diameters
+
+    @property
+    def larger_diameters(self) -> int:
+        return 2 if self.case.larger_diameters is None else self.case.larger_diameters
 
     def estimate(self) -> int:
         """An upper bound on the alternatives ``alternatives`` yields, without evaluating anything."""
@@ -141,9 +169,9 @@ class SingleColumn:
     def wider(self, base: Designs) -> list[np.ndarray]:
         """The larger standard diameters offered beside each base design, one array per size step."""
         case = self.case
-        if case.shell_diameter is not None or case.larger_diameters == 0:
+        if case.shell_diameter is not None or self.larger_diameters == 0:
             return []
-        steps = np.arange(1, case.larger_diameters + 1)
+        steps = np.arange(1, self.larger_diameters + 1)
         return list(self.internals.larger(base.diameter, steps).T)
 
     # ----------------------------------------------------------------- evaluation
@@ -190,14 +218,23 @@ class SingleColumn:
         size = self.internals.size(loads, trays, diameter, warnings=notes)
         diameter, height = size.diameter, size.height
 
-        # Vessel: estimating figures only, not a mechanical design.
+        # Vessel: estimating figures only, not a mechanical design. A design pressure or
+        # temperature the scenario gives replaces the margin rule.
         plate = PLATE[case.material]
-        p_design = vessel.design_pressure(case.pressure, warnings=notes)
-        t_design = vessel.design_temperature(case.temperature)
+        if case.design_pressure is None:
+            p_design = vessel.design_pressure(case.pressure, warnings=notes)
+        else:
+            p_design = case.design_pressure
+        if case.design_temperature is None:
+            t_design = vessel.design_temperature(case.temperature)
+        else:
+            t_design = case.design_temperature
         stress = vessel.allowable_stress(plate, t_design, warnings=notes)
         wall = vessel.wall_thickness(p_design, diameter, stress, warnings=notes)
-        head = vessel.round_up_to_plate(vessel.head_thickness(p_design, diameter, stress))
-        shell_kg = vessel.shell_weight(diameter, height, wall, vessel.metal_density(plate))
+        head = vessel.head_wall_thickness(p_design, diameter, stress, warnings=notes)
+        density = vessel.metal_density(plate)
+        shell_kg = vessel.cylinder_weight(diameter, height, wall, density)
+        heads_kg = 2.0 * vessel.head_weight(diameter, head, density)
         trays_kg = vessel.tray_weight(diameter, trays)
         area = math.pi / 4.0 * diameter**2
         volume = area * height
@@ -217,12 +254,17 @@ class SingleColumn:
         # Equipment rows, each at its correlation's cost basis.
         p_gauge = np.maximum(p_design, 0.0)
         pump_discharge = case.supply_pressure + pump_rise - STANDARD_ATMOSPHERE
-        items = [price_item(SHELL, volume, material=case.material, pressure_gauge=p_gauge, diameter=diameter,
-                            warnings=notes)]
+        shell = price_item(SHELL, volume, material=case.material, pressure_gauge=p_gauge, diameter=diameter,
+                           warnings=notes)
+        if case.shell_diameter is not None:   # reused: only the modification allowance is charged
+            shell = shell.scaled(case.shell_modification, self.shell)
+        items = [shell]
         items += self.internals.items(diameter, trays, warnings=notes)
         items += [price_item(PUMP, pump_shaft / 1000.0, material=case.material, pressure_gauge=pump_discharge,
                              warnings=notes),
-                  price_item(BLOWER, q_gas, pressure_gauge=blower_rise, warnings=notes)]
+                  price_item(self.pump_drive, pump_shaft / 1000.0, warnings=notes),
+                  price_gas_mover(FAN, BLOWER, q_gas, blower_rise, warnings=notes),
+                  price_item(self.blower_drive, blower_shaft / 1000.0, warnings=notes)]
         equipment = Equipment.stack(items)
 
         # Consumption rows.
@@ -249,7 +291,8 @@ class SingleColumn:
             height=height, pressure_drop_per_tray=size.pressure_drop_per_tray, pressure_drop=size.pressure_drop,
             design_pressure=np.broadcast_to(p_design, rate.shape).astype(float),
             design_temperature=np.broadcast_to(t_design, rate.shape).astype(float),
-            wall_thickness=wall, head_thickness=head, shell_weight=shell_kg, tray_weight=trays_kg, volume=volume,
+            wall_thickness=wall, head_thickness=np.broadcast_to(head, rate.shape).astype(float), shell_weight=shell_kg,
+            head_weight=heads_kg, vessel_weight=shell_kg + heads_kg, tray_weight=trays_kg, volume=volume,
             cross_section=area, liquid_volumetric_flow=q_liquid, pump_head=pump_rise, pump_shaft_power=pump_shaft,
             gas_inlet_flow=q_gas, blower_rise=blower_rise, blower_shaft_power=blower_shaft,
             electric_power=electric, steam_rate=steam_rate, cooling_rate=cooling_rate, makeup_rate=purge,

@@ -26,7 +26,8 @@ def equipment_rows(case, d, i: int = 0) -> list[dict]:
     """One row per equipment item of design ``i``: tag, kind, size basis, costs, correlation, range held."""
     eq = d.equipment
     rows = []
-    for j, spec in enumerate(eq.specs):
+    for j in range(len(eq.specs)):
+        spec = eq.spec_at(i, j)   # a row may switch correlation from one design to the next (fan or blower)
         rows.append({
             "tag": spec.tag, "item": spec.key, "kind": spec.kind, "material": eq.materials[j],
             "size_basis": spec.size_basis, "size": float(eq.size[i, j]), "size_unit": spec.size_unit,
@@ -44,6 +45,15 @@ def use_rows(d, i: int = 0) -> list[dict]:
              "unit_price": float(uses.unit_price[i, j]), "price_unit": spec.price_unit,
              ("credit_USD_per_yr" if spec.credit else "cost_USD_per_yr"): float(cost[i, j])}
             for j, spec in enumerate(uses.specs)]
+
+
+def design_basis(case) -> tuple[str, str]:
+    """Where the vessel's design pressure and temperature come from, in words."""
+    pressure = ("given in the scenario" if case.design_pressure is not None
+                else "operating pressure by the margin rule (Seider et al., Eq. 16.61)")
+    temperature = ("given in the scenario" if case.design_temperature is not None
+                   else "operating temperature + 27.8 K (50 F, common practice)")
+    return pressure, temperature
 
 
 def design_record(case, d, i: int = 0) -> dict:
@@ -91,8 +101,15 @@ def design_record(case, d, i: int = 0) -> dict:
             "shell_thickness_m": float(d.wall_thickness[i]),
             "head_thickness_m": float(d.head_thickness[i]),
             "shell_weight_kg": float(d.shell_weight[i]),
+            "heads_weight_kg": float(d.head_weight[i]),
+            "vessel_weight_kg": float(d.vessel_weight[i]),
             "tray_weight_kg": float(d.tray_weight[i]),
             "material": case.material,
+            "design_pressure_basis": design_basis(case)[0],
+            "design_temperature_basis": design_basis(case)[1],
+            "existing_shell": None if case.shell_diameter is None else {
+                "diameter_m": case.shell_diameter, "modification_allowance": case.shell_modification},
+            "drive_enclosure": case.drive_enclosure,
         },
         "utilities": {
             "pump_shaft_power_W": float(d.pump_shaft_power[i]),

@@ -11,7 +11,7 @@ from rich.console import Console
 from rich.table import Table
 
 from towercost.design.limits import SPEC_TOLERANCE
-from towercost.report.records import CAUTION, KMOL_H
+from towercost.report.records import CAUTION, KMOL_H, design_basis
 from towercost.scenario.units import mole_fraction_text
 
 
@@ -73,9 +73,11 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
         ("fraction of flood", f"{d.fraction_of_flood[i]:.3f}"),
         ("height, tangent to tangent", f"{d.height[i]:.2f} m"),
         ("pressure drop per tray / total", f"{d.pressure_drop_per_tray[i]:.0f} Pa / {d.pressure_drop[i] / 1000:.2f} kPa"),
-        ("design pressure / temperature", f"{d.design_pressure[i] / 1e5:.2f} barg / {d.design_temperature[i] - 273.15:.0f} degC"),
+        ("design pressure", f"{d.design_pressure[i] / 1e5:.2f} barg ({design_basis(case)[0]})"),
+        ("design temperature", f"{d.design_temperature[i] - 273.15:.0f} degC ({design_basis(case)[1]})"),
         ("shell / head thickness", f"{d.wall_thickness[i] * 1000:.1f} mm / {d.head_thickness[i] * 1000:.1f} mm ({case.material})"),
-        ("shell / trays weight", f"{d.shell_weight[i] / 1000:.2f} t / {d.tray_weight[i] / 1000:.2f} t"),
+        ("shell / heads / trays weight", f"{d.shell_weight[i] / 1000:.2f} t / {d.head_weight[i] / 1000:.2f} t / "
+                                         f"{d.tray_weight[i] / 1000:.2f} t"),
         ("pump / blower shaft power", f"{d.pump_shaft_power[i] / 1000:.2f} kW / {d.blower_shaft_power[i] / 1000:.2f} kW"),
     ]
     for r in rows:
@@ -85,7 +87,8 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
     eco = case.economics
     index_note = f"cost index {eco.index_to:g}" + (f" ({eco.index_year})" if eco.index_year else "")
     cap = _table(f"Capital, USD at {index_note}", "item", "purchased", "bare module", right=(1, 2))
-    for j, spec in enumerate(d.equipment.specs):
+    for j in range(len(d.equipment.specs)):
+        spec = d.equipment.spec_at(i, j)
         cap.add_row(f"{spec.tag} {spec.kind}", _money(d.purchased[i, j]), _money(d.bare_module_items[i, j]))
     cap.add_row("total module (with contingency and fee)", "", _money(d.total_module[i]))
     cap.add_row("installed (grassroots, with auxiliary facilities)", "", _money(d.installed[i]))
