@@ -56,6 +56,7 @@ def test_published_stainless_tower_through_a_scenario_file():
     assert float(d.height[0]) == pytest.approx(30.0, rel=1e-12)
     assert float(d.volume[0]) == pytest.approx(212.1, rel=1e-3)
     assert float(d.design_pressure[0]) == pytest.approx(20e5, rel=1e-12)     # given, not the margin rule
+    assert int(d.tray_type[0]) == 0 and float(d.range_use[0]) <= 1.0          # sieve trays, inside their range
     shell = float(d.bare_module_items[0, row(d, "tower_shell")])
     trays = float(d.bare_module_items[0, row(d, "trays")])
     one_tray = float(d.purchased[0, row(d, "trays")]) / 40
@@ -226,3 +227,104 @@ def test_existing_shell_is_charged_its_allowance_and_new_trays_only():
     record = records.design_record(prepare(allowed), a)
     assert record["column"]["existing_shell"] == {"diameter_m": pytest.approx(2.286), "modification_allowance": 0.15}
     assert "15 %" in a.equipment.spec_at(0, shell).kind
+
+
+# --------------------------------------------------------------------------- the tray's operating range
+
+STRIPPER_FILE = ROOT / "scenarios" / "demo_air_stripper.toml"
+STRIPPER = tomllib.loads(STRIPPER_FILE.read_text(encoding="utf-8"))
+
+#: Sinnott, Coulson & Richardson's Chemical Engineering Vol. 6, 4th ed., Fig. 11.30 (weep-point
+#: constant K2 against h_w + h_ow in mm), as digitized in a public process-model file read
+#: through the search tool (the points tests/test_hydraulics.py holds the fit to).
+CHART_DEPTH_MM = np.array([15, 20, 30, 40, 50, 60, 70, 80, 90, 100, 110.0])
+CHART_K2 = np.array([27.3, 28.3, 29.1, 29.6, 30.0, 30.3, 30.5, 30.8, 30.9, 31.0, 31.1])
+
+
+def test_weep_margin_of_a_design_against_the_published_chart():
+    # The demo absorber's sieve trays at two shells: the sheet's weep margin against a hand
+    # evaluation of Sinnott's weep-point correlation (4th ed., Eq. 11.84, value from memory),
+    # u_h,min = [K2 - 0.90 (25.4 - d_h)] / sqrt(rho_V), with K2 read off the chart points by
+    # linear interpolation at h_w + h_ow of the lowest liquid load (crest 750 (L/(rho_L l_w))**(2/3)
+    # mm, Eq. 11.85), the tray row's geometry (models/data/tray_types.toml) and the
+    # downcomer area of the flow-parameter rule. The fit of K2 lies within 0.2 of the chart,
+    # 1.7 % of the numerator: the tolerance.
+    case = prepare(scenario_with())
+    for diameter in (2.134, 2.438):
+        d = towercost.evaluate(scenario_with(valve_fallback=False), LIGHT, trays=15, ratio=1.537, diameter=diameter)
+        assert int(d.tray_type[0]) == 0
+        gas, liquid = float(d.gas_mass_flow[0]), float(d.liquid_mass_flow[0])
+        rho_v, rho_l = float(case.gas_density[0]), float(case.liquid_density[0])
+        f_lv = liquid / gas * math.sqrt(rho_v / rho_l)
+        downcomer = 0.1 + (min(max(f_lv, 0.1), 1.0) - 0.1) / 9.0   # Seader et al., 3rd ed., Sec. 6.6
+        tower = math.pi * diameter**2 / 4
+        holes = 0.10 * (tower - 2 * downcomer * tower)
+        weir = 0.73 * diameter
+        crest_mm = 750.0 * (0.6 * liquid / (rho_l * weir)) ** (2 / 3)
+        k2 = float(np.interp(50.8 + crest_mm, CHART_DEPTH_MM, CHART_K2))
+        weep_velocity = (k2 - 0.90 * (25.4 - 4.76)) / math.sqrt(rho_v)
+        low_velocity = 0.6 * gas / (rho_v * holes)
+        assert float(d.weep_ratio[0]) == pytest.approx(low_velocity / weep_velocity, rel=0.017)
+
+
+def test_downcomers_govern_the_stripper_diameter():
+    # The demo stripper's liquid load (flow parameter near 3, beyond the flooding chart):
+    # the least shell is the least standard size at or above the flooding size whose
+    # downcomers meet the back-up and residence-time limits. Independent method: the
+    # continuous least downcomer diameter of towercost.models.hydraulics.downcomer_diameter
+    # (bisection), rounded up to the standard size with the flooding diameter.
+    from towercost.models import hydraulics
+
+    case = prepare(parse_scenario(copy.deepcopy(STRIPPER), "test.toml"))
+    rng = np.random.default_rng(3)
+    agent = np.zeros(30, dtype=int)
+    trays = rng.integers(10, 40, 30)
+    rate = rng.uniform(1.5, 5.0, 30) * float(SingleColumn(case).rate_min[0])
+    d = SingleColumn(case).evaluate(agent, trays, rate)
+    assert np.all(d.diameter_least > d.diameter_flooding)           # the downcomers govern every one
+    for kind in np.unique(d.tray_type):
+        at = d.tray_type == kind
+        tray = ("sieve", "valve")[int(kind)]
+        fraction = hydraulics.downcomer_area_fraction(d.flow_parameter[at])
+        continuous = hydraulics.downcomer_diameter(d.gas_mass_flow[at], d.liquid_mass_flow[at],
+                                                   case.gas_density[0], case.liquid_density[0], fraction, tray,
+                                                   case.tray_spacing)
+        expected = hydraulics.standard_diameter(np.maximum(continuous, d.diameter_required[at]))
+        np.testing.assert_allclose(d.diameter_least[at], expected, rtol=0, atol=1e-9)
+        np.testing.assert_allclose(d.diameter[at], expected, rtol=0, atol=1e-9)
+
+
+def test_designs_outside_the_operating_range_are_not_offered():
+    from towercost.design.space import build_space
+
+    for tray, fallback in (("sieve", True), ("sieve", False), ("valve", True)):
+        case = prepare(scenario_with(tray=tray, valve_fallback=fallback, trays=[8, 24], ratio_levels=10))
+        space = build_space(case)
+        d = space.full()
+        assert np.all(d.range_use[space.feasible] <= 1.0)
+        assert np.all(~space.feasible[d.range_use > 1.0])
+        if tray == "sieve" and not fallback:
+            assert np.all(d.tray_type == 0) and np.any(d.range_use > 1.0)
+        if tray == "valve":
+            assert np.all(d.tray_type == 1)
+
+
+def test_valve_trays_remain_a_choice_where_sieve_trays_weep():
+    # The demo stripper's gas load is too small for sieve trays at any shell its liquid
+    # needs: at 60 % of the design loads they weep (Sinnott's weep point). Without the
+    # fallback no design is offered and the reason names the operating range; with it the
+    # designs carry valve trays (turndown 4:1, Kister, Distillation Design, Table 6.1, value
+    # from memory), priced by the valve-tray row.
+    from towercost.errors import InfeasibleSpec
+    from towercost.select import ranking
+
+    data = copy.deepcopy(STRIPPER)
+    data["column"].update(trays=[10, 20], ratio_levels=8)
+    result = ranking.optimize(parse_scenario(copy.deepcopy(data), "test.toml"), top=3)
+    assert np.all(result.designs.tray_type == 1)
+    j = row(result.designs, "trays")
+    assert result.designs.equipment.spec_at(0, j).correlation == "tray_valve"
+    data["column"]["valve_fallback"] = False
+    with pytest.raises(InfeasibleSpec, match="operating-range use") as raised:
+        ranking.optimize(parse_scenario(data, "test.toml"), top=3)
+    assert "valve" in str(raised.value)

@@ -115,6 +115,7 @@ def assert_meets_spec_and_limits(case: Case, d: Designs) -> None:
     r_lo, r_hi = case.ratio_range
     assert np.all(d.ratio >= r_lo * (1 - 1e-12)) and np.all(d.ratio <= r_hi * (1 + 1e-12))
     assert np.all(d.fraction_of_flood <= case.flood_fraction * (1 + 1e-9))
+    assert np.all(d.range_use <= 1.0)                  # inside the tray's operating range
     assert np.all(d.height <= case.max_height)
     assert np.all(d.diameter <= case.max_diameter)
     if case.shell_diameter is not None:

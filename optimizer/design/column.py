@@ -24,7 +24,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterator
-from dataclasses import dataclass, fields
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -33,7 +33,7 @@ from towercost.design.case import Case
 from towercost.design.costlines import (AGENT, COOLING, DISPOSAL, ELECTRICITY, STEAM, Equipment, ItemSpec, Uses,
                                         annualize, credit_spec, price_gas_mover, price_item)
 from towercost.design.designs import Designs
-from towercost.design.internals import Loads, Trays
+from towercost.design.internals import LeastCache, Loads, TrayChoice
 from towercost.design.limits import RATIO_TOLERANCE, limit_table, limits_met
 from towercost.models import defaults, economics, vessel
 from towercost.models.constants import GRAVITY, STANDARD_ATMOSPHERE
@@ -84,11 +84,16 @@ class Separation:
     rate: np.ndarray
     figures: dict[str, np.ndarray]
     loads: Loads
+    cache: LeastCache = field(default=None)   # least shells per tray type, found once for every size tried
+
+    def __post_init__(self):
+        if self.cache is None:
+            object.__setattr__(self, "cache", LeastCache(self.rate.shape[0]))
 
     def take(self, index) -> "Separation":
         return Separation(self.agent[index], self.trays[index], self.rate[index],
-                          {k: v[index] for k, v in self.figures.items()},
-                          Loads(*(getattr(self.loads, f.name)[index] for f in fields(Loads))))
+                          {k: v[index] for k, v in self.figures.items()}, self.loads.take(index),
+                          self.cache.take(index))
 
 
 @dataclass(frozen=True)
@@ -108,7 +113,8 @@ class SingleColumn:
     def __init__(self, case: Case):
         self.case = case
         self.service = case.service
-        self.internals = Trays(case.tray, case.tray_spacing, case.flood_fraction, case.material)
+        self.internals = TrayChoice(case.tray, case.tray_spacing, case.flood_fraction, case.material,
+                                    case.turndown, case.valve_fallback)
         self.shell = shell_spec(case)
         self.pump_drive, self.blower_drive = drive_specs(case.drive_enclosure)
         #: least rate of each agent with unlimited stages [mol/s]: a property of the agent alone
@@ -172,16 +178,18 @@ class SingleColumn:
         if case.shell_diameter is not None or self.larger_diameters == 0:
             return []
         steps = np.arange(1, self.larger_diameters + 1)
-        return list(self.internals.larger(base.diameter, steps).T)
+        return list(self.internals.kinds[0].larger(base.diameter, steps).T)
 
     # ----------------------------------------------------------------- evaluation
 
-    def evaluate(self, agent, trays, rate, diameter=None) -> Designs:
+    def evaluate(self, agent, trays, rate, diameter=None, tray=None) -> Designs:
         """Evaluate design points exactly.
 
         Arrays of agent index, real trays, agent rate [mol/s] and, optionally,
-        the shell diameter [m] (NaN or None: the least standard size the
-        flooding limit allows, or the scenario's existing shell).
+        the shell diameter [m] (NaN or None: the least standard size that
+        flooding and the downcomers allow, or the scenario's existing shell)
+        and the tray type (index into ``internals.TRAY_TYPES``; None: the
+        scenario's trays, valve trays where those fall outside their range).
         """
         case = self.case
         if diameter is None:
@@ -189,7 +197,9 @@ class SingleColumn:
         agent, trays, rate, diameter = (a.ravel() for a in np.broadcast_arrays(
             np.asarray(agent, dtype=int), np.asarray(trays, dtype=float), np.asarray(rate, dtype=float),
             np.asarray(diameter, dtype=float)))
-        return self.price(self.separate(agent, trays, rate), diameter)
+        if tray is not None:
+            tray = np.broadcast_to(np.asarray(tray, dtype=np.int8), agent.shape)
+        return self.price(self.separate(agent, trays, rate), diameter, tray)
 
     def separate(self, agent, trays, rate) -> Separation:
         """What a design's diameter does not change: the cascade, the flows and the column loads."""
@@ -208,14 +218,19 @@ class SingleColumn:
                        gas_flow=gas, liquid_mass_flow=liquid_mass, gas_mass_flow=gas_mass)
         return Separation(agent, trays, rate, figures, loads)
 
-    def price(self, separation: Separation, diameter) -> Designs:
-        """Size, price and check the separated design points at shell ``diameter`` [m] (NaN: the least size)."""
+    def price(self, separation: Separation, diameter, tray=None, *, messages: bool = True) -> Designs:
+        """Size, price and check the separated design points at shell ``diameter`` [m] (NaN: the least size).
+
+        ``tray``: the tray type of each point (None: the scenario's rule). With
+        ``messages`` False no range message is gathered (the space's pass: only
+        re-evaluated designs are reported).
+        """
         case, service = self.case, self.service
         agent, trays, rate = separation.agent, separation.trays, separation.rate
         loads = separation.loads
         liquid_mass, gas_mass, rho_l = loads.liquid_mass_flow, loads.gas_mass_flow, loads.liquid_density
-        notes: list[str] = list(case.notes)
-        size = self.internals.size(loads, trays, diameter, warnings=notes)
+        notes: list[str] | None = list(case.notes) if messages else None
+        size, least = self.internals.size(loads, trays, diameter, tray, cache=separation.cache, warnings=notes)
         diameter, height = size.diameter, size.height
 
         # Vessel: estimating figures only, not a mechanical design. A design pressure or
@@ -259,7 +274,7 @@ class SingleColumn:
         if case.shell_diameter is not None:   # reused: only the modification allowance is charged
             shell = shell.scaled(case.shell_modification, self.shell)
         items = [shell]
-        items += self.internals.items(diameter, trays, warnings=notes)
+        items += self.internals.items(diameter, trays, size.tray_type, warnings=notes)
         items += [price_item(PUMP, pump_shaft / 1000.0, material=case.material, pressure_gauge=pump_discharge,
                              warnings=notes),
                   price_item(self.pump_drive, pump_shaft / 1000.0, warnings=notes),
@@ -287,8 +302,10 @@ class SingleColumn:
 
         figures = dict(
             **separation.figures, flow_parameter=size.flow_parameter, flooding_velocity=size.flooding_velocity,
-            diameter_required=size.diameter_required, fraction_of_flood=size.fraction_of_flood_at_standard_diameter,
-            height=height, pressure_drop_per_tray=size.pressure_drop_per_tray, pressure_drop=size.pressure_drop,
+            diameter_required=size.diameter_required, diameter_flooding=least.flooding, diameter_least=least.diameter,
+            fraction_of_flood=size.fraction_of_flood, tray_type=size.tray_type, weep_ratio=size.weep_ratio,
+            entrainment=size.entrainment, backup_fraction=size.backup_fraction, residence_time=size.residence_time,
+            range_use=size.range_use, range_governs=size.range_governs, height=height, pressure_drop_per_tray=size.pressure_drop_per_tray, pressure_drop=size.pressure_drop,
             design_pressure=np.broadcast_to(p_design, rate.shape).astype(float),
             design_temperature=np.broadcast_to(t_design, rate.shape).astype(float),
             wall_thickness=wall, head_thickness=np.broadcast_to(head, rate.shape).astype(float), shell_weight=shell_kg,
@@ -301,7 +318,7 @@ class SingleColumn:
             annualized=annual.annualized,
             escalation=np.broadcast_to(annual.escalation, rate.shape + annual.escalation.shape[-1:]),
         )
-        designs = Designs(agent, trays.astype(int), rate, diameter, figures, equipment, uses, notes,
+        designs = Designs(agent, trays.astype(int), rate, diameter, figures, equipment, uses, notes or [],
                           use_cost_rows=annual.use_cost)
         designs.limits = limit_table(case, designs)
         designs.figures["within_limits"] = limits_met(designs.limits, len(designs))

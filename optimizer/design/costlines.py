@@ -111,11 +111,14 @@ def price_item(spec: ItemSpec, size, *, material: str = "carbon_steel", pressure
     out-of-range message (size, pressure factor) goes to ``warnings``.
     """
     size = np.asarray(size, dtype=float)
-    one = costing.purchased_cost(spec.correlation, size, warnings=warnings)
+    local: list[str] | None = None if warnings is None else []
+    one = costing.purchased_cost(spec.correlation, size, warnings=local)
     bare = costing.bare_module_cost(spec.correlation, size, material=material, pressure_gauge=pressure_gauge,
-                                    diameter=diameter, trays=count, purchased=one, warnings=warnings)
+                                    diameter=diameter, trays=count, purchased=one, warnings=local)
     base = costing.bare_module_cost(spec.correlation, size, diameter=diameter, trays=count, purchased=one)
     purchased = one if count is None else one * count
+    if local:   # each message names the item it is about
+        warnings.extend(f"{spec.tag} {spec.kind}: {message}" for message in local)
     return ItemCost(spec, size, purchased, bare, base, costing.size_in_range(spec.correlation, size), material)
 
 
@@ -161,7 +164,7 @@ def price_gas_mover(fan: ItemSpec, blower: ItemSpec, volumetric_flow, pressure_r
                         material, variants)
     if warnings is not None:
         warnings.append(
-            f"gas mover: pressure rise of {int(above.sum())} of {above.size} points ({float(rise[above].min()) / 1e3:.4g}"
+            f"{fan.tag} gas mover: pressure rise of {int(above.sum())} of {above.size} points ({float(rise[above].min()) / 1e3:.4g}"
             f" to {float(rise[above].max()) / 1e3:.4g} kPa) is above the {costing.FAN_RISE_LIMIT / 1e3:g} kPa of the fan "
             "correlation's pressure factor; priced as a centrifugal blower by fluid power (Turton Table A.1), a row that "
             "does not meet the fan's at 16 kPa: expect a step in cost there")

@@ -24,6 +24,7 @@ import numpy as np
 from towercost.design.case import Case
 from towercost.design.column import CHUNK, SingleColumn
 from towercost.design.designs import Designs
+from towercost.design.internals import TRAY_TYPES
 from towercost.design.limits import limit_table
 
 #: The order of alternatives of equal cost, first key first.
@@ -53,6 +54,7 @@ class Space:
     trays: np.ndarray            # real trays
     rate: np.ndarray             # agent rate [mol/s]
     diameter: np.ndarray         # shell diameter [m]
+    tray: np.ndarray             # tray type (index into towercost.design.internals.TRAY_TYPES)
     cost: np.ndarray             # total annualized cost [USD/yr]
     feasible: np.ndarray         # meets every spec and every limit
     least: np.ndarray            # the least rate of its (agent, trays) group
@@ -86,7 +88,8 @@ class Space:
     def designs(self, index) -> Designs:
         """The alternatives at ``index``, re-evaluated in full (one call), in the order given."""
         index = np.asarray(index, dtype=int)
-        return self.flowsheet.evaluate(self.agent[index], self.trays[index], self.rate[index], self.diameter[index])
+        return self.flowsheet.evaluate(self.agent[index], self.trays[index], self.rate[index], self.diameter[index],
+                                       self.tray[index])
 
     def full(self) -> Designs:
         """Every alternative in full (for small spaces: tests, curves)."""
@@ -98,7 +101,7 @@ class Space:
 
         frame = pd.DataFrame({"agent": np.asarray(self.case.agents, dtype=object)[self.agent], "trays": self.trays,
                               "rate": self.rate, "ratio": self.ratio, "diameter": self.diameter,
-                              "annualized": self.cost, "feasible": self.feasible, "least": self.least})
+                              "tray": np.asarray(TRAY_TYPES, dtype=object)[self.tray], "annualized": self.cost, "feasible": self.feasible, "least": self.least})
         for name, values in self.usage.items():
             frame[name] = values
         return frame
@@ -115,8 +118,8 @@ def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: i
     chosen = np.arange(len(case.agents)) if agents is None else np.asarray(agents, dtype=int)
     estimate = flowsheet.estimate() * chosen.size // max(len(case.agents), 1)
     # Columns filled in place, chunk by chunk: no list of parts to join, so no second copy at the end.
-    dtypes = {"agent": np.int32, "trays": np.int32, "rate": float, "diameter": float, "cost": float,
-              "feasible": bool, "least": bool, **{name: float for name in keep}}
+    dtypes = {"agent": np.int32, "trays": np.int32, "rate": float, "diameter": float, "tray": np.int8,
+              "cost": float, "feasible": bool, "least": bool, **{name: float for name in keep}}
     columns = {name: np.empty(estimate, dtype) for name, dtype in dtypes.items()}
     floors: dict[str, LimitFloor] = {}
     spec_met = 0
@@ -124,16 +127,16 @@ def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: i
     for batch in flowsheet.alternatives(chosen, chunk):
         separated = flowsheet.separate(batch.agent, batch.trays.astype(float), batch.rate)
         diameter = np.full(batch.rate.shape, np.nan if case.shell_diameter is None else case.shell_diameter)
-        base = flowsheet.price(separated, diameter)
+        base = flowsheet.price(separated, diameter, messages=False)
         pieces = [(base, batch.least)]
         for wider in flowsheet.wider(base):   # the same separation in a larger shell: only sizing and cost change
-            pieces.append((flowsheet.price(separated, wider), batch.least))
+            pieces.append((flowsheet.price(separated, wider, messages=False), batch.least))
         for designs, least in pieces:
             end = done + len(designs)
             if end > estimate:   # not expected: the estimate is an upper bound
                 raise RuntimeError(f"the space outgrew its estimate of {estimate:,} alternatives")
             values = {"agent": designs.agent, "trays": designs.trays, "rate": designs.rate,
-                      "diameter": designs.diameter, "cost": designs.annualized,
+                      "diameter": designs.diameter, "tray": designs.tray_type, "cost": designs.annualized,
                       "feasible": designs.within_limits, "least": least,
                       **{name: getattr(designs, name) for name in keep}}
             for name, column in columns.items():

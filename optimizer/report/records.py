@@ -13,6 +13,9 @@ import math
 
 import numpy as np
 
+from towercost.design.internals import TRAY_TYPES
+from towercost.models import hydraulics
+
 CAUTION = (
     "Preliminary estimate only (order of magnitude to study grade). Mechanical, "
     "process-safety and pressure-vessel design must be done by qualified engineers; "
@@ -45,6 +48,21 @@ def use_rows(d, i: int = 0) -> list[dict]:
              "unit_price": float(uses.unit_price[i, j]), "price_unit": spec.price_unit,
              ("credit_USD_per_yr" if spec.credit else "cost_USD_per_yr"): float(cost[i, j])}
             for j, spec in enumerate(uses.specs)]
+
+
+def operating_range(case, d, i: int = 0) -> dict:
+    """The tray's operating range at design ``i``: each limit's figure, the limit, and which governs."""
+    return {
+        "turndown": case.turndown,
+        "weep_ratio": float(d.weep_ratio[i]), "weep_ratio_min": 1.0,
+        "entrainment": float(d.entrainment[i]), "entrainment_max": hydraulics.ENTRAINMENT_LIMIT,
+        "downcomer_backup_fraction": float(d.backup_fraction[i]), "downcomer_backup_max": hydraulics.BACKUP_LIMIT,
+        "downcomer_residence_s": float(d.residence_time[i]),
+        "downcomer_residence_min_s": hydraulics.RESIDENCE_TIME_MIN,
+        "use": float(d.range_use[i]),
+        "governs": hydraulics.LIMIT_NAMES[int(d.range_governs[i])],
+        "inside": bool(d.range_use[i] <= 1.0),
+    }
 
 
 def design_basis(case) -> tuple[str, str]:
@@ -93,7 +111,12 @@ def design_record(case, d, i: int = 0) -> dict:
             "flow_parameter": float(d.flow_parameter[i]),
             "height_m": float(d.height[i]),
             "tray_spacing_m": case.tray_spacing,
-            "tray_type": case.tray,
+            "tray_type": TRAY_TYPES[int(d.tray_type[i])],
+            "tray_type_asked": case.tray,
+            "diameter_flooding_m": float(d.diameter_flooding[i]),
+            "diameter_least_m": float(d.diameter_least[i]),
+            "diameter_governs": "downcomer" if d.diameter_least[i] > d.diameter_flooding[i] else "flooding",
+            "operating_range": operating_range(case, d, i),
             "pressure_drop_per_tray_Pa": float(d.pressure_drop_per_tray[i]),
             "pressure_drop_Pa": float(d.pressure_drop[i]),
             "design_pressure_Pa_gauge": float(d.design_pressure[i]),

@@ -10,7 +10,9 @@ import numpy as np
 from rich.console import Console
 from rich.table import Table
 
+from towercost.design.internals import TRAY_TYPES
 from towercost.design.limits import SPEC_TOLERANCE
+from towercost.models import hydraulics
 from towercost.report.records import CAUTION, KMOL_H, design_basis
 from towercost.scenario.units import mole_fraction_text
 
@@ -65,16 +67,29 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
     console.print(sep)
 
     col = _table("Column (estimating figures, not a mechanical design)", "item", "value", right=(1,))
+    tray = TRAY_TYPES[int(d.tray_type[i])]
+    tray_note = "" if tray == case.tray else f" (in place of {case.tray} trays, outside their operating range here)"
+    flooding, least = d.diameter_flooding[i], d.diameter_least[i]
+    governs = "the downcomers govern" if least > flooding else "flooding governs"
+    inside = "inside" if d.range_use[i] <= 1.0 else "OUTSIDE"
     rows = [
-        ("tray type, spacing", f"{case.tray}, {case.tray_spacing:.3f} m"),
+        ("tray type, spacing", f"{tray}, {case.tray_spacing:.3f} m{tray_note}"),
         ("flow parameter", f"{d.flow_parameter[i]:.3g}"),
         ("diameter required at design flood", f"{d.diameter_required[i]:.3f} m"),
+        ("least shell: flooding / downcomers", f"{flooding:.3f} m / {least:.3f} m ({governs})"),
         ("diameter (standard size)", f"{d.diameter[i]:.3f} m"),
         ("fraction of flood", f"{d.fraction_of_flood[i]:.3f}"),
+        (f"weep margin at {100 * case.turndown:g} % of design loads", f"{d.weep_ratio[i]:.2f} (at least 1)"),
+        ("fractional entrainment", f"{d.entrainment[i]:.3f} (at most {hydraulics.ENTRAINMENT_LIMIT:g})"),
+        ("downcomer back-up / residence time", f"{d.backup_fraction[i]:.2f} of spacing + weir (at most "
+                                               f"{hydraulics.BACKUP_LIMIT:g}) / {d.residence_time[i]:.1f} s (at least "
+                                               f"{hydraulics.RESIDENCE_TIME_MIN:g} s)"),
+        ("operating range", f"{inside}; {hydraulics.LIMIT_NAMES[int(d.range_governs[i])]} is nearest its limit "
+                            f"({100 * d.range_use[i]:.0f} %)"),
         ("height, tangent to tangent", f"{d.height[i]:.2f} m"),
         ("pressure drop per tray / total", f"{d.pressure_drop_per_tray[i]:.0f} Pa / {d.pressure_drop[i] / 1000:.2f} kPa"),
-        ("design pressure", f"{d.design_pressure[i] / 1e5:.2f} barg ({design_basis(case)[0]})"),
-        ("design temperature", f"{d.design_temperature[i] - 273.15:.0f} degC ({design_basis(case)[1]})"),
+        ("design pressure", f"{d.design_pressure[i] / 1e5:.2f} barg, {design_basis(case)[0]}"),
+        ("design temperature", f"{d.design_temperature[i] - 273.15:.0f} degC, {design_basis(case)[1]}"),
         ("shell / head thickness", f"{d.wall_thickness[i] * 1000:.1f} mm / {d.head_thickness[i] * 1000:.1f} mm ({case.material})"),
         ("shell / heads / trays weight", f"{d.shell_weight[i] / 1000:.2f} t / {d.head_weight[i] / 1000:.2f} t / "
                                          f"{d.tray_weight[i] / 1000:.2f} t"),
@@ -125,15 +140,19 @@ def print_ranking(console: Console, result) -> None:
                   f"({result.method}); N = theoretical stages and {fw} = {'absorption' if fw == 'A' else 'stripping'} "
                   f"factor for {key}; D diameter, H height")
 
+    preferred = TRAY_TYPES.index(case.tray)
+    show_tray = bool(np.any(d.tray_type != preferred) or np.any(result.per_agent.tray_type != preferred))
+
     def table_of(title, designs, ranks=True):
-        t = _table(title, "#" if ranks else "", "candidate", "trays", "N", rw, fw, "D m", "H m",
-                   "capital kUSD", "net oper. kUSD/yr", "total kUSD/yr", "+ %",
-                   right=(2, 3, 4, 5, 6, 7, 8, 9, 10, 11))
+        head = ["#" if ranks else "", "candidate", "trays"] + (["tray"] if show_tray else [])
+        t = _table(title, *head, "N", rw, fw, "D m", "H m", "capital kUSD", "net oper. kUSD/yr", "total kUSD/yr",
+                   "+ %", right=(2,) + tuple(range(len(head), len(head) + 9)))
         s = case.solutes.index(key)
         for i in range(len(designs)):
             above = (designs.annualized[i] - best) / abs(best) if best else 0.0
+            tray = [TRAY_TYPES[int(designs.tray_type[i])]] if show_tray else []
             t.add_row(str(i + 1) if ranks else "", case.agents[int(designs.agent[i])], str(int(designs.trays[i])),
-                      f"{designs.stages[i, s]:.2f}", f"{designs.ratio[i]:.3f}", f"{designs.factor[i, s]:.3f}",
+                      *tray, f"{designs.stages[i, s]:.2f}", f"{designs.ratio[i]:.3f}", f"{designs.factor[i, s]:.3f}",
                       f"{designs.diameter[i]:.2f}", f"{designs.height[i]:.1f}", f"{designs.installed[i] / 1e3:,.0f}",
                       f"{(designs.operating[i] - designs.credit[i]) / 1e3:,.1f}", f"{designs.annualized[i] / 1e3:,.1f}",
                       f"{100 * above:.2f}")
