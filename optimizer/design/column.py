@@ -13,8 +13,9 @@ exactly, all in one call (numpy broadcasting):
 
 ``SingleColumn.alternatives`` enumerates the design space in chunks: for each
 agent and tray count, the least rate meeting every spec (exact Kremser
-inverse) and the ratio levels above it; for each rate, the least standard
-diameter and ``larger_diameters`` sizes above it.
+inverse) and the ratio levels above it; ``SingleColumn.shells`` prices each
+rate at the least standard diameter and the wider ones the diameter search
+offers (until the cost has risen for two sizes in a row).
 
 A regenerated agent's regenerator enters only through the scenario's steam
 and cooling water per kg circulated; its equipment is not modelled here.
@@ -34,8 +35,8 @@ from towercost.design.costlines import (AGENT, COOLING, DISPOSAL, ELECTRICITY, S
                                         annualize, credit_spec, price_gas_mover, price_item)
 from towercost.design.designs import Designs
 from towercost.design.internals import LeastCache, Loads, TrayChoice
-from towercost.design.limits import RATIO_TOLERANCE, limit_table, limits_met
-from towercost.models import defaults, economics, vessel
+from towercost.design.limits import RATIO_TOLERANCE, SPEC_TOLERANCE, limit_table, limits_met
+from towercost.models import defaults, economics, hydraulics, vessel
 from towercost.models.constants import GRAVITY, STANDARD_ATMOSPHERE
 from towercost.models.properties import ideal_gas_density
 
@@ -72,7 +73,15 @@ def shell_spec(case: Case) -> ItemSpec:
 SAME_RATE = 1e-9
 
 #: Alternatives evaluated per call when the space is enumerated in chunks.
-CHUNK = 1 << 16
+CHUNK = 1 << 17
+
+#: Diameter search: standard sizes above the least one that may be tried (a cap: 30 x 6 in = 4.6 m),
+#: and how many sizes in a row the cost must rise before the search stops.
+MAX_WIDER = 30
+RISES = 2
+
+#: Shell sizes per rate a searched space holds on the demo cases (3 to 5): sizes its batches.
+TYPICAL_SIZES = 4
 
 
 @dataclass(frozen=True)
@@ -85,6 +94,7 @@ class Separation:
     figures: dict[str, np.ndarray]
     loads: Loads
     cache: LeastCache = field(default=None)   # least shells per tray type, found once for every size tried
+    fixed: list = field(default_factory=list)  # the Fixed part, once found (priced without messages)
 
     def __post_init__(self):
         if self.cache is None:
@@ -93,7 +103,28 @@ class Separation:
     def take(self, index) -> "Separation":
         return Separation(self.agent[index], self.trays[index], self.rate[index],
                           {k: v[index] for k, v in self.figures.items()}, self.loads.take(index),
-                          self.cache.take(index))
+                          self.cache.take(index), [f.take(index) for f in self.fixed])
+
+
+@dataclass(frozen=True)
+class Fixed:
+    """What the shell's diameter does not change beyond the separation: the pump, the gas flow, the uses."""
+
+    q_liquid: np.ndarray            # [m3/s] pumped
+    pump_rise: np.ndarray           # [Pa]
+    pump_shaft: np.ndarray          # [W]
+    q_gas: np.ndarray               # [m3/s] at the gas mover's inlet
+    items: tuple                    # the pump and its motor (ItemCost rows)
+    uses: tuple                     # (UseSpec, rate, unit price) rows other than electricity
+    figures: dict                   # purge, steam and cooling rates
+
+    def take(self, index) -> "Fixed":
+        def part(value):
+            return value[index] if np.ndim(value) else value
+        return Fixed(self.q_liquid[index], self.pump_rise[index], self.pump_shaft[index], self.q_gas[index],
+                     tuple(item.take(index) for item in self.items),
+                     tuple((spec, part(rate), part(price)) for spec, rate, price in self.uses),
+                     {k: v[index] for k, v in self.figures.items()})
 
 
 @dataclass(frozen=True)
@@ -105,6 +136,7 @@ class Chunk:
     rate: np.ndarray
     diameter: np.ndarray     # NaN: the least standard size
     least: np.ndarray        # the least rate of its (agent, trays) group
+    progress: tuple[int, int] = (0, 0)   # (agent, trays) groups enumerated so far, and in all
 
 
 class SingleColumn:
@@ -136,18 +168,24 @@ class SingleColumn:
         return grid_agent.ravel(), grid_trays.ravel()
 
     def diameters_per_rate(self) -> int:
+        """The most shell sizes one separated design point is priced at."""
         case = self.case
-        return 1 if case.shell_diameter is not None else 1 + self.larger_diameters
-
-    @property
-    def larger_diameters(self) -> int:
-        return 2 if self.case.larger_diameters is None else self.case.larger_diameters
+        if case.shell_diameter is not None:
+            return 1
+        return 1 + (MAX_WIDER if case.larger_diameters is None else case.larger_diameters)
 
     def estimate(self) -> int:
         """An upper bound on the alternatives ``alternatives`` yields, without evaluating anything."""
         case = self.case
         n_groups = len(case.agents) * (case.trays_range[1] - case.trays_range[0] + 1)
         return n_groups * (case.ratio_levels + 1) * self.diameters_per_rate()
+
+    def typical(self) -> int:
+        """About how many alternatives the space holds: ``estimate`` with a few sizes per rate when searched."""
+        case = self.case
+        per_rate = self.diameters_per_rate() if case.larger_diameters is not None else TYPICAL_SIZES
+        n_groups = len(case.agents) * (case.trays_range[1] - case.trays_range[0] + 1)
+        return n_groups * (case.ratio_levels + 1) * min(per_rate, self.diameters_per_rate())
 
     def alternatives(self, agents=None, chunk: int = CHUNK) -> Iterator[Chunk]:
         """The design space in batches of about ``chunk`` alternatives."""
@@ -158,9 +196,9 @@ class SingleColumn:
         least = np.maximum(cascade.least_rate(case, grid_agent, grid_trays), lo * rate_min)
         levels = self.rate_grid()
         reach = np.isfinite(least) & (least <= hi * rate_min * (1 + RATIO_TOLERANCE))
-        per_rate = self.diameters_per_rate()
+        per_rate = self.diameters_per_rate() if case.larger_diameters is not None else TYPICAL_SIZES
         groups = np.flatnonzero(reach)
-        per_group = (1 + levels.size) * per_rate
+        per_group = (1 + levels.size) * min(per_rate, self.diameters_per_rate())
         step = max(1, chunk // per_group)
         for start in range(0, groups.size, step):
             g = groups[start:start + step]
@@ -170,15 +208,58 @@ class SingleColumn:
             group = np.concatenate([g, g[g_idx]])
             rate = np.concatenate([least[g], grid_rates[g_idx, l_idx]])
             is_least = np.concatenate([np.ones(g.size, bool), np.zeros(g_idx.size, bool)])
-            yield Chunk(grid_agent[group], grid_trays[group], rate, np.full(rate.shape, np.nan), is_least)
+            yield Chunk(grid_agent[group], grid_trays[group], rate, np.full(rate.shape, np.nan), is_least,
+                        (min(start + step, groups.size), groups.size))
 
-    def wider(self, base: Designs) -> list[np.ndarray]:
-        """The larger standard diameters offered beside each base design, one array per size step."""
+    def shells(self, separation: Separation) -> Iterator[tuple[np.ndarray, Designs]]:
+        """The separated points priced at each shell size offered: the least first, then wider ones.
+
+        Yields (positions in ``separation``, their designs at one more size).
+        The sizes offered for each point:
+
+        * an existing shell: that one only;
+        * ``[column] larger_diameters`` given: the least size and that many above it;
+        * otherwise the least size and each next standard size (6 in) until
+          the cost has risen for ``RISES`` sizes in a row, the trays weep at
+          the turndown loads (a wider shell only weeps more: the operating
+          range ends), the next size exceeds ``max_diameter``, or ``MAX_WIDER``
+          sizes have been tried. Where valve trays take the place of sieve
+          trays that weep, the wider shells of that design take them at once. The cheapest size of a point is then never
+          the widest tried, unless one of the last two ends it.
+        """
         case = self.case
-        if case.shell_diameter is not None or self.larger_diameters == 0:
-            return []
-        steps = np.arange(1, self.larger_diameters + 1)
-        return list(self.internals.kinds[0].larger(base.diameter, steps).T)
+        n = separation.rate.shape[0]
+        start = np.full(n, np.nan if case.shell_diameter is None else case.shell_diameter)
+        base = self.price(separation, start, messages=False)
+        everyone = np.arange(n)
+        yield everyone, base
+        if case.shell_diameter is not None:
+            return
+        if case.larger_diameters is not None:
+            for wider in self.internals.kinds[0].larger(base.diameter, np.arange(1, case.larger_diameters + 1)).T:
+                yield everyone, self.price(separation, wider, messages=False)
+            return
+        cost, diameter = base.annualized.copy(), base.diameter.copy()
+        rises = np.zeros(n, dtype=np.int8)
+        fallback = self.internals.fallback
+        # -1: the tray rule; once the scenario's trays weep and valve trays take their place, the wider
+        # shells of that design take valve trays at once (a wider shell only weeps more)
+        tray = np.where(base.tray_type == fallback, base.tray_type, -1).astype(np.int8)
+        active = everyone[base.weep_ratio >= 1.0]
+        limit = case.max_diameter * (1.0 + SPEC_TOLERANCE)
+        for _ in range(MAX_WIDER):
+            wider = hydraulics.standard_diameter(diameter[active] + hydraulics.STANDARD_DIAMETER_STEP)
+            inside = wider <= limit
+            active, wider = active[inside], wider[inside]
+            if active.size == 0:
+                return
+            designs = self.price(separation.take(active), wider, tray[active], messages=False)
+            yield active, designs
+            rose = designs.annualized > cost[active]
+            rises[active] = np.where(rose, rises[active] + 1, 0)
+            cost[active], diameter[active] = designs.annualized, wider
+            tray[active] = np.where(designs.tray_type == fallback, designs.tray_type, -1)
+            active = active[(rises[active] < RISES) & (designs.weep_ratio >= 1.0)]
 
     # ----------------------------------------------------------------- evaluation
 
@@ -254,50 +335,36 @@ class SingleColumn:
         area = math.pi / 4.0 * diameter**2
         volume = area * height
 
-        # Pump for the liquid fed to the top; blower for the gas fed to the bottom.
-        q_liquid = liquid_mass / rho_l
-        pump_rise = (np.maximum(case.pressure - case.supply_pressure, 0.0) + rho_l * GRAVITY * height
-                     + defaults.PUMP_ALLOWANCE)
-        pump_shaft = economics.pump_power(q_liquid, pump_rise, case.pump_efficiency)
+        # Pump for the liquid fed to the top; gas mover for the gas fed to the bottom.
+        if separation.fixed and not messages:
+            fixed = separation.fixed[0]
+        else:
+            fixed = self._fixed(separation, height, notes)
+            if not messages:
+                separation.fixed.append(fixed)
+        pump_shaft, q_gas = fixed.pump_shaft, fixed.q_gas
         gas_supply = service.gas_supply_pressure(case.pressure)
         blower_rise = size.pressure_drop + defaults.BLOWER_ALLOWANCE + max(case.pressure - gas_supply, 0.0)
-        q_gas = gas_mass / ideal_gas_density(gas_supply, case.temperature, case.gas_molar_mass[agent])
         blower_shaft = economics.blower_power(q_gas, gas_supply, blower_rise, case.blower_efficiency)
         electric = (economics.electric_power(pump_shaft, case.motor_efficiency)
                     + economics.electric_power(blower_shaft, case.motor_efficiency))
 
         # Equipment rows, each at its correlation's cost basis.
         p_gauge = np.maximum(p_design, 0.0)
-        pump_discharge = case.supply_pressure + pump_rise - STANDARD_ATMOSPHERE
         shell = price_item(SHELL, volume, material=case.material, pressure_gauge=p_gauge, diameter=diameter,
                            warnings=notes)
         if case.shell_diameter is not None:   # reused: only the modification allowance is charged
             shell = shell.scaled(case.shell_modification, self.shell)
         items = [shell]
         items += self.internals.items(diameter, trays, size.tray_type, warnings=notes)
-        items += [price_item(PUMP, pump_shaft / 1000.0, material=case.material, pressure_gauge=pump_discharge,
-                             warnings=notes),
-                  price_item(self.pump_drive, pump_shaft / 1000.0, warnings=notes),
+        items += [*fixed.items,
                   price_gas_mover(FAN, BLOWER, q_gas, blower_rise, warnings=notes),
                   price_item(self.blower_drive, blower_shaft / 1000.0, warnings=notes)]
         equipment = Equipment.stack(items)
 
         # Consumption rows.
-        agent_mass = liquid_mass if service.agent_is_liquid else gas_mass
-        regen = case.regenerated[agent]
-        purge = np.where(regen, case.loss[agent] * agent_mass, agent_mass)
-        steam_rate = np.where(regen, case.steam_ratio[agent] * agent_mass, 0.0)
-        cooling_rate = np.where(regen, case.cooling_ratio[agent] * agent_mass, 0.0)
         eco = case.economics
-        rows = [(ELECTRICITY, electric, eco.electricity), (AGENT, purge, case.price[agent]),
-                (DISPOSAL, purge, case.disposal[agent]), (STEAM, steam_rate, eco.steam),
-                (COOLING, cooling_rate, eco.cooling_water)]
-        removed = case.feed_in - separation.figures["outlet"]  # per mol of treated stream
-        for s, solute in enumerate(case.solutes):
-            if case.credit[s] > 0:
-                rows.append((credit_spec(solute), np.where(regen, case.feed_flow * removed[:, s], 0.0),
-                             case.credit[s]))
-        uses = Uses.stack(rows)
+        uses = Uses.stack([(ELECTRICITY, electric, eco.electricity), *fixed.uses])
         annual = annualize(equipment, uses, eco)
 
         figures = dict(
@@ -310,9 +377,9 @@ class SingleColumn:
             design_temperature=np.broadcast_to(t_design, rate.shape).astype(float),
             wall_thickness=wall, head_thickness=np.broadcast_to(head, rate.shape).astype(float), shell_weight=shell_kg,
             head_weight=heads_kg, vessel_weight=shell_kg + heads_kg, tray_weight=trays_kg, volume=volume,
-            cross_section=area, liquid_volumetric_flow=q_liquid, pump_head=pump_rise, pump_shaft_power=pump_shaft,
-            gas_inlet_flow=q_gas, blower_rise=blower_rise, blower_shaft_power=blower_shaft,
-            electric_power=electric, steam_rate=steam_rate, cooling_rate=cooling_rate, makeup_rate=purge,
+            cross_section=area, liquid_volumetric_flow=fixed.q_liquid, pump_head=fixed.pump_rise,
+            pump_shaft_power=pump_shaft, gas_inlet_flow=q_gas, blower_rise=blower_rise, blower_shaft_power=blower_shaft,
+            electric_power=electric, **fixed.figures,
             bare_module=annual.bare_module, total_module=annual.total_module, installed=annual.installed,
             operating=annual.operating, credit=annual.credit, capital_charge=annual.capital_charge,
             annualized=annual.annualized,
@@ -323,3 +390,34 @@ class SingleColumn:
         designs.limits = limit_table(case, designs)
         designs.figures["within_limits"] = limits_met(designs.limits, len(designs))
         return designs
+
+    def _fixed(self, separation: Separation, height, notes) -> Fixed:
+        """The pump and its motor, the gas flow and the uses other than electricity: no diameter in them."""
+        case, service = self.case, self.service
+        agent, loads = separation.agent, separation.loads
+        liquid_mass, gas_mass, rho_l = loads.liquid_mass_flow, loads.gas_mass_flow, loads.liquid_density
+        q_liquid = liquid_mass / rho_l
+        pump_rise = (np.maximum(case.pressure - case.supply_pressure, 0.0) + rho_l * GRAVITY * height
+                     + defaults.PUMP_ALLOWANCE)
+        pump_shaft = economics.pump_power(q_liquid, pump_rise, case.pump_efficiency)
+        gas_supply = service.gas_supply_pressure(case.pressure)
+        q_gas = gas_mass / ideal_gas_density(gas_supply, case.temperature, case.gas_molar_mass[agent])
+        pump_discharge = case.supply_pressure + pump_rise - STANDARD_ATMOSPHERE
+        items = (price_item(PUMP, pump_shaft / 1000.0, material=case.material, pressure_gauge=pump_discharge,
+                            warnings=notes),
+                 price_item(self.pump_drive, pump_shaft / 1000.0, warnings=notes))
+        agent_mass = liquid_mass if service.agent_is_liquid else gas_mass
+        regen = case.regenerated[agent]
+        purge = np.where(regen, case.loss[agent] * agent_mass, agent_mass)
+        steam_rate = np.where(regen, case.steam_ratio[agent] * agent_mass, 0.0)
+        cooling_rate = np.where(regen, case.cooling_ratio[agent] * agent_mass, 0.0)
+        eco = case.economics
+        rows = [(AGENT, purge, case.price[agent]), (DISPOSAL, purge, case.disposal[agent]),
+                (STEAM, steam_rate, eco.steam), (COOLING, cooling_rate, eco.cooling_water)]
+        removed = case.feed_in - separation.figures["outlet"]  # per mol of treated stream
+        for s, solute in enumerate(case.solutes):
+            if case.credit[s] > 0:
+                rows.append((credit_spec(solute), np.where(regen, case.feed_flow * removed[:, s], 0.0),
+                             case.credit[s]))
+        return Fixed(q_liquid, pump_rise, pump_shaft, q_gas, items, tuple(rows),
+                     dict(steam_rate=steam_rate, cooling_rate=cooling_rate, makeup_rate=purge))

@@ -90,6 +90,11 @@ class ItemCost:
         if len(self.variants) > 1 and len({v.basis for v in self.variants}) != 1:
             raise ValueError(f"the variants of {self.spec.key} must share one cost basis")
 
+    def take(self, index) -> "ItemCost":
+        shape = np.shape(self.bare_module)
+        return ItemCost(self.spec, *(np.broadcast_to(getattr(self, a), shape)[index] for a in ITEM_ARRAYS[:5]),
+                        self.material, self.variants, np.broadcast_to(self.variant, shape)[index])
+
     def spec_at(self, i: int) -> ItemSpec:
         """The spec (correlation, kind) that priced design point ``i``."""
         return self.variants[int(np.broadcast_to(self.variant, np.shape(self.bare_module))[i])]
@@ -221,9 +226,7 @@ class Equipment:
         return self.items[j].spec_at(i)
 
     def take(self, index) -> "Equipment":
-        return Equipment([ItemCost(i.spec, *(np.broadcast_to(getattr(i, a), np.shape(i.bare_module))[index]
-                                             for a in ITEM_ARRAYS[:5]), i.material, i.variants,
-                                   np.broadcast_to(i.variant, np.shape(i.bare_module))[index]) for i in self.items])
+        return Equipment([i.take(index) for i in self.items])
 
     @classmethod
     def concatenate(cls, parts: list["Equipment"]) -> "Equipment":

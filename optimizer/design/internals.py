@@ -102,6 +102,11 @@ class TraySizing:
     def take(self, index) -> "TraySizing":
         return TraySizing(*(getattr(self, f.name)[index] for f in fields(TraySizing)))
 
+    def put(self, index, part: "TraySizing") -> None:
+        """Write ``part`` over the points at ``index`` (in place)."""
+        for f in fields(TraySizing):
+            getattr(self, f.name)[index] = getattr(part, f.name)
+
     @classmethod
     def scatter(cls, n: int, parts: list[tuple[np.ndarray, "TraySizing"]]) -> "TraySizing":
         """One sizing over ``n`` points from sizings of parts of them (positions, sizing)."""
@@ -143,44 +148,48 @@ class Trays:
             size.flooding_velocity, size.downcomer_fraction, self.tray_type, self.spacing, self.turndown,
             warnings=warnings)
 
-    def least(self, loads: Loads, count) -> Least:
+    def least(self, loads: Loads, count) -> tuple[Least, TraySizing]:
         """The least standard shell: the flooding size, stepped up while the downcomer limits fail there.
 
         D = least standard size >= standard(D_flood) with h_b/(l_t + h_w) <= the back-up limit
         and t_r >= the least residence time (``hydraulics.tray_operating_range``); at high
         liquid loads (flow parameters beyond the flooding chart) the downcomers govern.
+        Returns the least shells and the sizing in them.
         """
         common = dict(tray_spacing=self.spacing, flood_fraction=self.flood_fraction, tray_type=self.tray_type)
-        flooding = hydraulics.size_column(*self._args(loads), count, **common).diameter
-        shell = flooding.copy()
-        active = np.arange(shell.size)
-        backup, residence = hydraulics.LIMIT_NAMES.index("downcomer back-up"), hydraulics.LIMIT_NAMES.index(
-            "downcomer residence time")
+        size = hydraulics.size_column(*self._args(loads), count, **common)
+        sizing = self._sizing(size, self._range(loads, size))
+        flooding = sizing.diameter.copy()
+        active = np.arange(flooding.size)
         for _ in range(DOWNCOMER_STEPS):
-            part = loads.take(active)
-            size = hydraulics.size_column(*self._args(part), count[active], **common, diameter=shell[active])
-            use = self._range(part, size).utilization
-            fails = (use[:, backup] > 1.0) | (use[:, residence] > 1.0)
+            fails = ((sizing.backup_fraction[active] > hydraulics.BACKUP_LIMIT)
+                     | (sizing.residence_time[active] < hydraulics.RESIDENCE_TIME_MIN))
             active = active[fails]
             if active.size == 0:
                 break
-            shell[active] = hydraulics.standard_diameter(shell[active] + hydraulics.STANDARD_DIAMETER_STEP)
-        return Least(flooding, shell)
+            shell = hydraulics.standard_diameter(sizing.diameter[active] + hydraulics.STANDARD_DIAMETER_STEP)
+            part = loads.take(active)
+            size = hydraulics.size_column(*self._args(part), count[active], **common, diameter=shell)
+            sizing.put(active, self._sizing(size, self._range(part, size)))
+        return Least(flooding, sizing.diameter.copy()), sizing
 
     def size(self, loads: Loads, count, diameter, *, warnings: list[str] | None = None) -> TraySizing:
         """Hydraulics and operating range of ``count`` trays in shells of ``diameter`` [m]."""
         size = hydraulics.size_column(*self._args(loads), count, tray_spacing=self.spacing,
                                       flood_fraction=self.flood_fraction, tray_type=self.tray_type,
                                       diameter=diameter, warnings=warnings)
-        r = self._range(loads, size, warnings)
+        return self._sizing(size, self._range(loads, size, warnings))
+
+    def _sizing(self, size: hydraulics.ColumnSize, r: hydraulics.OperatingRange) -> TraySizing:
         n = np.shape(size.diameter)
         return TraySizing(
-            tray_type=np.full(n, self.index, dtype=np.int8), flow_parameter=size.flow_parameter,
-            flooding_velocity=size.flooding_velocity, diameter_required=size.diameter_required,
-            diameter=size.diameter, fraction_of_flood=size.fraction_of_flood_at_standard_diameter, height=size.height,
+            tray_type=np.full(n, self.index, dtype=np.int8), flow_parameter=np.array(size.flow_parameter),
+            flooding_velocity=np.array(size.flooding_velocity), diameter_required=np.array(size.diameter_required),
+            diameter=np.array(size.diameter), fraction_of_flood=size.fraction_of_flood_at_standard_diameter,
+            height=np.broadcast_to(size.height, n).astype(float),
             pressure_drop_per_tray=size.pressure_drop_per_tray, pressure_drop=size.pressure_drop,
             weep_ratio=r.weep_ratio, entrainment=r.entrainment, backup_fraction=r.backup_fraction,
-            residence_time=r.residence_time, range_use=np.max(r.utilization, axis=-1),
+            residence_time=r.residence_time, range_use=_largest(r.utilization),
             range_governs=np.argmax(r.utilization, axis=-1).astype(np.int8))
 
     @staticmethod
@@ -213,25 +222,33 @@ class LeastCache:
         part._store, part._n, part.index = self._store, self._n, self.index[index]
         return part
 
-    def get(self, kind: int, compute) -> Least:
-        """The least shells of tray type ``kind`` for this part; ``compute(local)`` gives them for missing points."""
+    def get(self, kind: int, compute) -> tuple[Least, TraySizing | None]:
+        """The least shells of tray type ``kind`` for this part, and the sizing in them where just found.
+
+        ``compute(local)`` gives (least shells, sizing) for the points missing;
+        the sizing is returned only when every point of the part was missing.
+        """
         flooding, downcomer = self._store.setdefault(kind, (np.full(self._n, np.nan), np.full(self._n, np.nan)))
         missing = np.flatnonzero(np.isnan(flooding[self.index]))
+        fresh = None
         if missing.size:
-            least = compute(missing)
+            least, sizing = compute(missing)
             flooding[self.index[missing]] = least.flooding
             downcomer[self.index[missing]] = least.downcomer
-        return Least(flooding[self.index], downcomer[self.index])
+            if missing.size == self.index.size:
+                fresh = sizing
+        return Least(flooding[self.index], downcomer[self.index]), fresh
 
 
 class TrayChoice:
     """The scenario's trays, and valve trays where sieve trays would fall outside their operating range.
 
-    Per design point one tray type is priced: the scenario's where it works
-    at that shell; otherwise, with ``fallback``, valve trays if they work
-    there (their lower limit is a turndown ratio, wider than a sieve tray's
-    weep point); otherwise the scenario's trays, outside their range (a
-    design the limits then refuse).
+    Per design point one tray type is priced: the scenario's where they do
+    not weep at that shell; where they would, with ``fallback``, valve trays
+    if they work there (their lower limit is a turndown ratio, wider than a
+    sieve tray's weep point); otherwise the scenario's trays, outside their
+    range (a design the limits then refuse). Weeping is the one limit valve
+    trays mend: they share Fair's entrainment chart and the downcomers.
     """
 
     def __init__(self, tray_type: str, spacing: float, flood_fraction: float, material: str,
@@ -244,7 +261,7 @@ class TrayChoice:
 
     def size(self, loads: Loads, count, diameter, tray=None, *, cache: LeastCache | None = None,
              warnings: list[str] | None = None) -> tuple[TraySizing, Least]:
-        """Sizing at ``diameter`` [m] (NaN: the least shell) with ``tray`` types (None: the rule above).
+        """Sizing at ``diameter`` [m] (NaN: the least shell) with ``tray`` types (None, or -1 per point: the rule).
 
         Returns the sizing and, per point, the least shells of the tray type priced.
         """
@@ -252,22 +269,33 @@ class TrayChoice:
         count = np.asarray(count)
         n = diameter.size
         cache = LeastCache(n) if cache is None else cache
-        if tray is not None:
-            tray = np.broadcast_to(np.asarray(tray, dtype=np.int8), (n,))
-            kinds = np.unique(tray)
-            if kinds.size == 1:
-                return self._sized(loads, count, diameter, int(kinds[0]), cache, warnings)
-            parts, leasts = [], []
-            for k in kinds:
-                at = np.flatnonzero(tray == k)
-                s, least = self._sized(loads.take(at), count[at], diameter[at], int(k), cache.take(at), warnings)
-                parts.append((at, s))
-                leasts.append((at, least))
-            return TraySizing.scatter(n, parts), _scatter_least(n, leasts)
+        if tray is None:
+            return self._by_rule(loads, count, diameter, cache, warnings)
+        tray = np.broadcast_to(np.asarray(tray, dtype=np.int8), (n,))
+        kinds = np.unique(tray)
+        if kinds.size == 1:
+            k = int(kinds[0])
+            if k < 0:
+                return self._by_rule(loads, count, diameter, cache, warnings)
+            return self._sized(loads, count, diameter, k, cache, warnings)
+        parts, leasts = [], []
+        for k in kinds:
+            at = np.flatnonzero(tray == k)
+            args = (loads.take(at), count[at], diameter[at])
+            if k < 0:
+                s, least = self._by_rule(*args, cache.take(at), warnings)
+            else:
+                s, least = self._sized(*args, int(k), cache.take(at), warnings)
+            parts.append((at, s))
+            leasts.append((at, least))
+        return TraySizing.scatter(n, parts), _scatter_least(n, leasts)
+
+    def _by_rule(self, loads, count, diameter, cache: LeastCache, warnings) -> tuple[TraySizing, Least]:
+        n = diameter.size
         local: list[str] | None = None if warnings is None else []
         sizing, least = self._sized(loads, count, diameter, self.preferred, cache, local)
         if self.fallback is not None:
-            out = np.flatnonzero(~sizing.in_range)
+            out = np.flatnonzero(sizing.weeps)   # what valve trays' wider turndown can mend
             if out.size:
                 other, other_least = self._sized(loads.take(out), count[out], diameter[out], self.fallback,
                                                  cache.take(out), None)
@@ -291,8 +319,11 @@ class TrayChoice:
 
     def _sized(self, loads, count, diameter, kind, cache: LeastCache, warnings) -> tuple[TraySizing, Least]:
         trays = self.kinds[kind]
-        least = cache.get(kind, lambda local: trays.least(loads.take(local), count[local]))
-        shell = np.where(np.isnan(diameter), least.diameter, diameter)
+        least, fresh = cache.get(kind, lambda local: trays.least(loads.take(local), count[local]))
+        wanted = np.isnan(diameter)
+        if fresh is not None and warnings is None and np.all(wanted):   # sized in the least shells already
+            return fresh, least
+        shell = np.where(wanted, least.diameter, diameter)
         return trays.size(loads, count, shell, warnings=warnings), least
 
     def items(self, diameter, count, tray, *, warnings: list[str] | None = None) -> list[ItemCost]:
@@ -301,14 +332,25 @@ class TrayChoice:
         kinds = np.unique(tray)
         first = self.kinds[self.preferred].item
         if kinds.size == 1:
-            row = self.kinds[int(kinds[0])].items(diameter, count, warnings=warnings)
-            return [merge_rows([(np.arange(tray.size), row)], tray.size, first, self.variants)]
+            k = int(kinds[0])
+            row = self.kinds[k].items(diameter, count, warnings=warnings)
+            variant = np.full(tray.size, self.variants.index(self.kinds[k].item), dtype=np.int8)
+            return [ItemCost(first, row.size, row.purchased, row.bare_module, row.bare_module_base, row.in_range,
+                             row.material, self.variants, variant)]
         parts = []
         for k in kinds:
             at = np.flatnonzero(tray == k)
             parts.append((at, self.kinds[int(k)].items(np.asarray(diameter)[at], np.asarray(count)[at],
                                                        warnings=warnings)))
         return [merge_rows(parts, tray.size, first, self.variants)]
+
+
+def _largest(table: np.ndarray) -> np.ndarray:
+    """Largest entry of each row of a narrow (n, k) table (column by column: faster than a row reduction)."""
+    out = table[..., 0].copy()
+    for j in range(1, table.shape[-1]):
+        np.maximum(out, table[..., j], out=out)
+    return out
 
 
 def _scatter_least(n: int, parts: list[tuple[np.ndarray, Least]]) -> Least:
