@@ -170,6 +170,7 @@ def result_record(result) -> dict:
         rec = design_record(case, result.designs, i)
         rec["rank"] = i + 1
         rec["above_best"] = (float(result.designs.annualized[i]) - best) / abs(best) if best else 0.0
+        rec["on_search_bounds"] = list(result.ranked_bounds[i]) if result.ranked_bounds else []
         alternatives.append(rec)
     band = result.band
     return {
@@ -183,6 +184,7 @@ def result_record(result) -> dict:
                  "ratio_to_minimum": list(band.ratio), "agents": band.agents},
         "per_agent_best": [design_record(case, result.per_agent, i) for i in range(len(result.per_agent))],
         "no_design": result.unmet,
+        "search_bounds": [{"design": f.design, "bound": f.bound, "message": f.message} for f in result.bounds],
         "warnings": result.warnings,
         "solver": result.solver,
         "caution": CAUTION,
@@ -205,6 +207,7 @@ def alternatives_frame(result):
             "installed_USD": float(d.installed[i]), "operating_USD_yr": float(d.operating[i]),
             "credit_USD_yr": float(d.credit[i]), "annualized_USD_yr": float(d.annualized[i]),
             "above_best": (float(d.annualized[i]) - best) / abs(best) if best else 0.0,
+            "on_search_bounds": " ".join(result.ranked_bounds[i]) if result.ranked_bounds else "",
         }
         for s, name in enumerate(case.solutes):
             row[f"stages_{name}"] = float(d.stages[i, s])

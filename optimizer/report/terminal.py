@@ -171,7 +171,12 @@ def print_ranking(console: Console, result) -> None:
                       f"{s['build_seconds'] * 1000:.0f} ms, {s['solves']} solves in {s['solve_seconds'] * 1000:.0f} ms "
                       f"({s['solver']}); model objective minus exact re-evaluation: {s['difference']:.2e} USD/yr[/dim]")
     console.print(f"[dim]Space evaluated in {s['evaluate_seconds'] * 1000:.0f} ms; total {s['total_seconds']:.2f} s[/dim]")
-    print_warnings(console, result.warnings)
+    flagged = [f.message for f in getattr(result, "bounds", [])]
+    if flagged:
+        console.print("[bold]On a bound of the search[/bold]")
+        for message in flagged:
+            console.print(f"  - {message}", highlight=False)
+    print_warnings(console, [w for w in result.warnings if w not in flagged])
 
 
 def print_curve(console: Console, curve) -> None:
