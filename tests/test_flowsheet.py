@@ -328,3 +328,30 @@ def test_valve_trays_remain_a_choice_where_sieve_trays_weep():
     with pytest.raises(InfeasibleSpec, match="operating-range use") as raised:
         ranking.optimize(parse_scenario(data, "test.toml"), top=3)
     assert "valve" in str(raised.value)
+
+
+# --------------------------------------------------------------------------- the sheet
+
+
+def test_sheet_shows_tray_efficiency_per_solute_and_the_controlling_solute():
+    # O'Connell's absorber correlation gives each solute its own efficiency (towercost.models.efficiency);
+    # the sheet's figure is theoretical stages over real trays, and the solute whose outlet sits
+    # nearest its spec controls (toluene on the demo: its pinch sets the least solvent rate).
+    scenario = scenario_with()
+    case = prepare(scenario)
+    d = towercost.evaluate(scenario, LIGHT, trays=15, ratio=1.6)
+    np.testing.assert_allclose(d.efficiency[0], d.stages[0] / 15.0, rtol=1e-15)
+    np.testing.assert_allclose(d.efficiency[0], case.efficiency[0], rtol=1e-12)
+    assert d.efficiency[0, 0] != pytest.approx(d.efficiency[0, 1], rel=1e-3)
+    assert case.solutes[int(d.controlling[0])] == "toluene"
+    share = d.outlet[0] / case.target
+    assert int(np.argmax(share)) == int(d.controlling[0])
+    record = records.design_record(case, d)
+    assert record["controlling_solute"] == "toluene"
+    assert record["solutes"]["p-xylene"]["tray_efficiency"] == pytest.approx(float(d.efficiency[0, 1]), rel=1e-15)
+    from typer.testing import CliRunner
+
+    from towercost.cli import app
+
+    out = CliRunner().invoke(app, ["evaluate", str(ABSORBER_FILE), "--solvent", LIGHT, "--trays", "15", "--ratio", "1.6"])
+    assert "tray efficiency" in out.stdout and "toluene controls" in out.stdout

@@ -294,8 +294,11 @@ class SingleColumn:
         gas_mass = gas * case.gas_molar_mass[agent]
         loads = Loads(gas_mass, liquid_mass, case.gas_density[agent], case.liquid_density[agent],
                       case.surface_tension[agent])
-        figures = dict(rate_min=rate_min, ratio=ratio, factor=factor, stages=stages, outlet=out,
-                       agent_outlet=agent_out, meets_spec=cascade.meets_spec(case, out), liquid_flow=liquid,
+        with np.errstate(divide="ignore", invalid="ignore"):
+            share = np.where(np.isfinite(case.target), out / case.target, 0.0)   # outlet over its spec
+        figures = dict(rate_min=rate_min, ratio=ratio, factor=factor, stages=stages,
+                       efficiency=stages / np.maximum(trays, 1.0)[:, None], controlling=np.argmax(share, axis=-1),
+                       outlet=out, agent_outlet=agent_out, meets_spec=cascade.meets_spec(case, out), liquid_flow=liquid,
                        gas_flow=gas, liquid_mass_flow=liquid_mass, gas_mass_flow=gas_mass)
         return Separation(agent, trays, rate, figures, loads)
 

@@ -22,6 +22,8 @@ FIGURES: dict[str, tuple[str, str]] = {
     "ratio": ("-", "agent rate over its minimum (L/Lmin or G/Gmin)"),
     "factor": ("-", "absorption factor A or stripping factor S, per solute"),
     "stages": ("-", "theoretical stages, per solute"),
+    "efficiency": ("-", "overall tray efficiency, theoretical stages over real trays, per solute"),
+    "controlling": ("", "the solute nearest its spec (outlet over spec largest), index into case.solutes"),
     "outlet": ("-", "treated-stream outlet mole fraction, per solute"),
     "agent_outlet": ("-", "agent outlet mole fraction, per solute"),
     "meets_spec": ("", "every solute meets its spec"),

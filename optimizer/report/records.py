@@ -88,6 +88,7 @@ def design_record(case, d, i: int = 0) -> dict:
             "fraction_removed": 1.0 - out / inlet if inlet > 0 else None,
             "factor": float(d.factor[i, s]),
             "theoretical_stages": float(d.stages[i, s]),
+            "tray_efficiency": float(d.efficiency[i, s]),
             "k_value": float(case.k_value[a, s]),
             "agent_outlet_mole_fraction": float(d.agent_outlet[i, s]),
         }
@@ -103,6 +104,7 @@ def design_record(case, d, i: int = 0) -> dict:
         "ratio_to_minimum": float(d.ratio[i]),
         "meets_spec": bool(d.meets_spec[i]),
         "within_limits": bool(d.within_limits[i]),
+        "controlling_solute": case.solutes[int(d.controlling[i])],
         "solutes": solutes,
         "column": {
             "diameter_m": float(d.diameter[i]),

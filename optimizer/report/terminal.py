@@ -57,14 +57,19 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
     console.print(f"{case.agents[a]}: {int(d.trays[i])} real trays, {rw} {d.ratio[i]:.3f}, "
                   f"rate {d.rate[i] * KMOL_H:,.1f} kmol/h (minimum {d.rate_min[i] * KMOL_H:,.1f}); {status}")
 
-    sep = _table("Separation", "solute", "K", fw, "theoretical stages", "inlet", "outlet", "spec",
-                 "removed", right=(1, 2, 3, 4, 5, 6, 7))
+    control = int(d.controlling[i])
+    sep = _table("Separation", "solute", "K", fw, "theoretical stages", "tray efficiency", "inlet", "outlet", "spec",
+                 "removed", right=(1, 2, 3, 4, 5, 6, 7, 8))
     for s, name in enumerate(case.solutes):
         inlet, out, target = case.feed_in[s], d.outlet[i, s], case.target[s]
         mark = "" if out <= target * (1 + SPEC_TOLERANCE) else "  (misses)"
-        sep.add_row(name, f"{case.k_value[a, s]:.4g}", f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}",
-                    mole_fraction_text(inlet), mole_fraction_text(out) + mark, mole_fraction_text(target), f"{100 * (1 - out / inlet):.3f} %")
+        sep.add_row(name + (" (controls)" if s == control else ""), f"{case.k_value[a, s]:.4g}", f"{d.factor[i, s]:.3f}",
+                    f"{d.stages[i, s]:.2f}", f"{d.efficiency[i, s]:.3f}", mole_fraction_text(inlet),
+                    mole_fraction_text(out) + mark, mole_fraction_text(target), f"{100 * (1 - out / inlet):.3f} %")
     console.print(sep)
+    console.print(f"tray efficiency = theoretical stages / {int(d.trays[i])} real trays; {case.solutes[control]} "
+                  f"controls (its outlet is {100 * d.outlet[i, control] / case.target[control]:.1f} % of its spec)",
+                  highlight=False)
 
     col = _table("Column (estimating figures, not a mechanical design)", "item", "value", right=(1,))
     tray = TRAY_TYPES[int(d.tray_type[i])]
@@ -135,7 +140,7 @@ def print_ranking(console: Console, result) -> None:
     case, d = result.case, result.designs
     rw, fw = _ratio_word(case), _factor_word(case)
     best = float(d.annualized[0])
-    key = case.solutes[int(np.argmax(np.where(np.isfinite(case.target), 1.0, 0.0)))]
+    key = case.solutes[int(d.controlling[0])]   # the solute the best design's spec holds
     console.print(f"[bold]{case.name}[/bold]: the {len(d)} best of {result.space_size:,} alternatives "
                   f"({result.method}); N = theoretical stages and {fw} = {'absorption' if fw == 'A' else 'stripping'} "
                   f"factor for {key}; D diameter, H height")
@@ -195,7 +200,7 @@ def print_curve(console: Console, curve) -> None:
         t.add_row(f"{d.ratio[i]:.3f}", str(int(d.trays[i])), f"{d.diameter[i]:.3f}", _money(d.installed[i]),
                   _money(d.annualized[i]))
     console.print(t)
-    console.print(f"[dim]{CAUTION}[/dim]")
+    print_warnings(console, getattr(curve, "warnings", []))
 
 
 def print_cascade(console: Console, record: dict, absorb: bool) -> None:

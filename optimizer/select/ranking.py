@@ -257,6 +257,7 @@ class Curve:
     agent: str
     by_trays: Designs = field(repr=False)     # for each tray count, its best design
     by_ratio: Designs = field(repr=False)     # for each ratio level, the best design at that rate
+    warnings: list[str] = field(default_factory=list)   # range messages of the designs shown
 
 
 def _cheapest_per(labels: np.ndarray, order: np.ndarray) -> np.ndarray:
@@ -281,4 +282,6 @@ def cost_curve(scenario: Scenario, agent: str) -> Curve:
     on_grid = ~space.least & np.isclose(ratio, levels[level], rtol=SAME_RATE)
     by_trays = _cheapest_per(space.trays, order)
     by_ratio = _cheapest_per(level, order[on_grid[order]])
-    return Curve(case=case, agent=agent, by_trays=space.designs(by_trays), by_ratio=space.designs(by_ratio))
+    shown = space.designs(np.unique(np.concatenate([by_trays, by_ratio])))   # one set of messages for both tables
+    return Curve(case=case, agent=agent, by_trays=space.designs(by_trays), by_ratio=space.designs(by_ratio),
+                 warnings=shown.warnings)
