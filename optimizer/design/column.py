@@ -33,7 +33,7 @@ from towercost.design import cascade
 from towercost.design.case import Case
 from towercost.design.costlines import (AGENT, COOLING, DISPOSAL, ELECTRICITY, STEAM, Equipment, ItemSpec, Uses,
                                         annualize, credit_spec, price_gas_mover, price_item)
-from towercost.design.designs import Designs
+from towercost.design.designs import Designs, Figures
 from towercost.design.internals import LeastCache, Loads, TrayChoice
 from towercost.design.limits import RATIO_TOLERANCE, SPEC_TOLERANCE, limit_table, limits_met
 from towercost.models import defaults, economics, hydraulics, vessel
@@ -102,7 +102,7 @@ class Separation:
 
     def take(self, index) -> "Separation":
         return Separation(self.agent[index], self.trays[index], self.rate[index],
-                          {k: v[index] for k, v in self.figures.items()}, self.loads.take(index),
+                          Figures(source=self.figures, index=index), self.loads.take(index),
                           self.cache.take(index), [f.take(index) for f in self.fixed])
 
 
@@ -370,8 +370,8 @@ class SingleColumn:
         uses = Uses.stack([(ELECTRICITY, electric, eco.electricity), *fixed.uses])
         annual = annualize(equipment, uses, eco)
 
-        figures = dict(
-            **separation.figures, flow_parameter=size.flow_parameter, flooding_velocity=size.flooding_velocity,
+        figures = Figures(dict(
+            flow_parameter=size.flow_parameter, flooding_velocity=size.flooding_velocity,
             diameter_required=size.diameter_required, diameter_flooding=least.flooding, diameter_least=least.diameter,
             fraction_of_flood=size.fraction_of_flood, tray_type=size.tray_type, weep_ratio=size.weep_ratio,
             entrainment=size.entrainment, backup_fraction=size.backup_fraction, residence_time=size.residence_time,
@@ -387,7 +387,7 @@ class SingleColumn:
             operating=annual.operating, credit=annual.credit, capital_charge=annual.capital_charge,
             annualized=annual.annualized,
             escalation=np.broadcast_to(annual.escalation, rate.shape + annual.escalation.shape[-1:]),
-        )
+        ), separation.figures)
         designs = Designs(agent, trays.astype(int), rate, diameter, figures, equipment, uses, notes or [],
                           use_cost_rows=annual.use_cost)
         designs.limits = limit_table(case, designs)

@@ -10,6 +10,7 @@ table with one row per design and one column per figure.
 
 from __future__ import annotations
 
+from collections.abc import MutableMapping
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -86,6 +87,47 @@ DERIVED = {
 }
 
 DECISIONS = ("agent", "trays", "rate", "diameter")
+
+
+class Figures(MutableMapping):
+    """Figures by name: arrays of its own, then those of ``source`` (at ``index``), gathered when first read.
+
+    Pricing a part of a separated batch at a wider shell reads only a few
+    of the batch's figures; the others are gathered only if asked for.
+    """
+
+    def __init__(self, own: dict | None = None, source=None, index=None):
+        self._own = dict(own or {})
+        self._source = source
+        self._index = index
+
+    def __getitem__(self, key):
+        if key in self._own:
+            return self._own[key]
+        if self._source is None or key not in self._source:
+            raise KeyError(key)
+        value = self._source[key]
+        if self._index is not None:
+            value = value[self._index]
+        self._own[key] = value
+        return value
+
+    def __setitem__(self, key, value):
+        self._own[key] = value
+
+    def __delitem__(self, key):
+        del self._own[key]
+
+    def __contains__(self, key):
+        return key in self._own or (self._source is not None and key in self._source)
+
+    def __iter__(self):
+        yield from self._own
+        if self._source is not None:
+            yield from (k for k in self._source if k not in self._own)
+
+    def __len__(self):
+        return sum(1 for _ in self)
 
 
 @dataclass
