@@ -211,8 +211,11 @@ def scenario_dicts(draw):
               "material": draw(st.sampled_from(["carbon_steel", "ss304", "ss316"])),
               "trays": [low_trays, low_trays + draw(st.integers(3, 20))],
               "ratio": [low_ratio, low_ratio + draw(st.floats(0.5, 5.0))],
-              "ratio_levels": draw(st.integers(8, 15)), "larger_diameters": draw(st.integers(0, 2)),
-              "flood_fraction": draw(st.floats(0.6, 0.85))}
+              "ratio_levels": draw(st.integers(8, 15)), "flood_fraction": draw(st.floats(0.6, 0.85)),
+              "turndown": draw(st.sampled_from([0.5, 0.6, 0.8, 1.0])), "valve_fallback": draw(st.booleans())}
+    larger = draw(st.sampled_from([None, None, 0, 1, 2]))    # None: the diameter search
+    if larger is not None:
+        column["larger_diameters"] = larger
     economics = {"interest": amount(0.2), "life": draw(st.floats(5.0, 30.0)),
                  "hours": draw(st.floats(4000.0, 8760.0)), "electricity": amount(0.2) / 3.6e6,
                  "steam": amount(0.05), "cooling_water": amount(0.1)}
