@@ -312,7 +312,6 @@ class SingleColumn:
         case, service = self.case, self.service
         agent, trays, rate = separation.agent, separation.trays, separation.rate
         loads = separation.loads
-        liquid_mass, gas_mass, rho_l = loads.liquid_mass_flow, loads.gas_mass_flow, loads.liquid_density
         notes: list[str] | None = list(case.notes) if messages else None
         size, least = self.internals.size(loads, trays, diameter, tray, cache=separation.cache, warnings=notes)
         diameter, height = size.diameter, size.height
