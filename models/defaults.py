@@ -17,6 +17,10 @@ TRAY_SPACING = 24 * INCH
 #: Design fraction of flood [-]: 0.80, common practice for non-foaming systems.
 FLOOD_FRACTION = 0.80
 
+#: Lowest expected gas and liquid loads as a fraction of the design loads, at which the
+#: tray must not weep [-]: 0.6, common practice.
+TURNDOWN = 0.6
+
 #: Space above the top tray and below the bottom tray [m]: common practice for estimating.
 TOP_SPACE = 1.2
 BOTTOM_SPACE = 1.8

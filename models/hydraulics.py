@@ -911,7 +911,7 @@ BACKUP_LIMIT = 0.5
 #: Sec. 11.13: "at least 3 seconds", value from memory).
 RESIDENCE_TIME_MIN = 3.0
 #: Lowest expected rate as a fraction of the design vapour and liquid loads (common practice).
-TURNDOWN = 0.6
+TURNDOWN = defaults.TURNDOWN
 
 _K2_SOURCE = "Sinnott weep-point chart (Fig. 11.30) fit"
 _PSI_SOURCE = "Fair entrainment chart fit"

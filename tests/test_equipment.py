@@ -48,10 +48,12 @@ def test_equipment_rows_agree_with_the_sheet_to_the_cent(tmp_path, path):
         assert _cents(row["bare_module_USD"]) == _cents(item["bare_module_USD"])
         assert row["range_held"] == item["range_held"] and row["correlation"] == item["correlation"]
         assert row["design_id"] == best["design_id"]
-    assert _cents(sum(r["bare_module_USD"] for r in rows)) == _cents(sheet["capital_USD"]["bare_module_total"])
+    # each row is rounded to the cent, so their sum may differ from the rounded total by half a cent a row
+    assert abs(sum(r["bare_module_USD"] for r in rows) - sheet["capital_USD"]["bare_module_total"]) <= 0.005 * len(rows)
     vessel = next(r for r in rows if r["correlation"].startswith("vessel"))
-    assert math.isclose(vessel["wall_thickness_mm"], sheet["column"]["shell_thickness_m"] * 1000, rel_tol=1e-12)
-    assert math.isclose(vessel["weight_kg"], sheet["column"]["shell_weight_kg"], rel_tol=1e-12)
+    # figures other than costs are written to 12 significant digits
+    assert math.isclose(vessel["wall_thickness_mm"], sheet["column"]["shell_thickness_m"] * 1000, rel_tol=1e-11)
+    assert math.isclose(vessel["weight_kg"], sheet["column"]["shell_weight_kg"], rel_tol=1e-11)
     assert math.isclose(vessel["design_pressure_kPa_gauge"], sheet["column"]["design_pressure_Pa_gauge"] / 1000,
                         rel_tol=1e-12)
 

@@ -30,6 +30,7 @@ from towercost.design.designs import Designs
 from towercost.design.limits import limit_table
 from towercost.design.space import RESOURCES, Space, build_space
 from towercost.errors import InfeasibleSpec, ScenarioError
+from towercost.report import records
 from towercost.scenario import load_scenario, parse_scenario
 from towercost.select import model, ranking
 from towercost.select.scan import first_in_order, scan
@@ -115,6 +116,7 @@ def assert_meets_spec_and_limits(case: Case, d: Designs) -> None:
     r_lo, r_hi = case.ratio_range
     assert np.all(d.ratio >= r_lo * (1 - 1e-12)) and np.all(d.ratio <= r_hi * (1 + 1e-12))
     assert np.all(d.fraction_of_flood <= case.flood_fraction * (1 + 1e-9))
+    assert np.all(d.range_use <= 1.0)                  # inside the tray's operating range
     assert np.all(d.height <= case.max_height)
     assert np.all(d.diameter <= case.max_diameter)
     if case.shell_diameter is not None:
@@ -209,8 +211,11 @@ def scenario_dicts(draw):
               "material": draw(st.sampled_from(["carbon_steel", "ss304", "ss316"])),
               "trays": [low_trays, low_trays + draw(st.integers(3, 20))],
               "ratio": [low_ratio, low_ratio + draw(st.floats(0.5, 5.0))],
-              "ratio_levels": draw(st.integers(8, 15)), "larger_diameters": draw(st.integers(0, 2)),
-              "flood_fraction": draw(st.floats(0.6, 0.85))}
+              "ratio_levels": draw(st.integers(8, 15)), "flood_fraction": draw(st.floats(0.6, 0.85)),
+              "turndown": draw(st.sampled_from([0.5, 0.6, 0.8, 1.0])), "valve_fallback": draw(st.booleans())}
+    larger = draw(st.sampled_from([None, None, 0, 1, 2]))    # None: the diameter search
+    if larger is not None:
+        column["larger_diameters"] = larger
     economics = {"interest": amount(0.2), "life": draw(st.floats(5.0, 30.0)),
                  "hours": draw(st.floats(4000.0, 8760.0)), "electricity": amount(0.2) / 3.6e6,
                  "steam": amount(0.05), "cooling_water": amount(0.1)}
@@ -687,3 +692,85 @@ def test_spec_already_met_by_feed_is_reported():
     with pytest.raises((ScenarioError, InfeasibleSpec)) as raised:
         ranking.optimize(parse_scenario(data), top=3)
     assert "toluene" in str(raised.value)
+
+
+# ---------------------------------------------------------------------------
+# 8. a best design on a bound of the search is flagged, with the words to widen it
+# ---------------------------------------------------------------------------
+
+
+def bounds_of(data: dict, method: str = "scan") -> tuple[ranking.Result, dict[str, list[str]]]:
+    result = ranking.optimize(parse_scenario(copy.deepcopy(data), "bounds"), top=3, method=method)
+    flags: dict[str, list[str]] = {}
+    for flag in result.bounds:
+        flags.setdefault(flag.bound, []).append(flag.message)
+    return result, flags
+
+
+def test_flag_on_the_most_trays_searched():
+    # Dear solvent, free capital: the best takes the most trays allowed (the limiting case above).
+    data = one_solvent_absorber(price=1.0e4)
+    data["economics"].update(interest=0.0, life=100.0)
+    result, flags = bounds_of(data)
+    assert int(result.best.trays[0]) == 25
+    assert "trays_high" in flags and "[column] trays = [2, 25]" in flags["trays_high"][0]
+    assert "raise the upper end" in flags["trays_high"][0]
+    assert any("the most searched" in w for w in result.warnings)          # it reaches every output
+    record = records.result_record(result)
+    assert record["search_bounds"][0]["bound"] == "trays_high"
+    assert "trays_high" in record["alternatives"][0]["on_search_bounds"]
+    assert "trays_high" in records.alternatives_frame(result)["on_search_bounds"].iloc[0]
+
+
+def test_flag_on_the_fewest_trays_searched():
+    data = one_solvent_absorber(price=0.0, molar_mass=0.018, density=1000.0)
+    data["feed"]["flow"] = 20.0
+    data["column"]["trays"] = [12, 25]
+    data["economics"].update(electricity=0.0)
+    result, flags = bounds_of(data)
+    assert int(result.best.trays[0]) == 12
+    assert "trays_low" in flags and "lower the first value" in flags["trays_low"][0]
+
+
+def test_flag_on_the_ratio_ceiling():
+    # Cheap solvent, dear trays, a low ceiling on L/Lmin: the best takes the fewest trays the
+    # ceiling lets meet the spec; one tray fewer would need more than 1.3 x Lmin.
+    data = one_solvent_absorber(price=0.0)
+    data["column"]["ratio"] = [1.01, 1.3]
+    data["economics"].update(interest=0.3, electricity=0.0)
+    result, flags = bounds_of(data)
+    assert "ratio_high" in flags and "raise the upper value" in flags["ratio_high"][0]
+    case, best = result.case, result.best
+    fewer = cascade.least_rate(case, best.agent, best.trays - 1)[0]
+    assert fewer > 1.3 * float(best.rate_min[0])
+
+
+def test_flag_on_the_ratio_floor():
+    # Dear solvent and a high floor on L/Lmin: the best meets the spec with slack at 2 x Lmin.
+    data = one_solvent_absorber(price=1.0e3)
+    data["column"]["ratio"] = [2.0, 5.0]
+    result, flags = bounds_of(data)
+    assert float(result.best.ratio[0]) == pytest.approx(2.0, rel=1e-9)
+    assert "ratio_low" in flags and "lower the first value" in flags["ratio_low"][0]
+
+
+@pytest.mark.parametrize("method", ["scan", "model"])
+def test_flag_on_the_widest_shell_tried(method):
+    # The wide-shell case with the sizes cut to the least one: its best sits on the only size tried.
+    data = raw_scenario(ABSORBER)
+    data["solvent"] = data["solvent"][:1]
+    data["column"].update(trays=[8, 30], ratio_levels=12, turndown=1.0, valve_fallback=False, larger_diameters=0)
+    data["economics"].update(electricity="0.3 USD/kWh", interest=0.03)
+    _, flags = bounds_of(data, method)
+    assert "diameter" in flags and "larger_diameters = 0" in flags["diameter"][0]
+    data["column"].pop("larger_diameters")
+    data["column"]["max_diameter"] = "2.2 m"
+    _, flags = bounds_of(data, method)
+    assert "diameter" in flags and "max_diameter" in flags["diameter"][0]
+    data["column"].pop("max_diameter")
+    _, flags = bounds_of(data, method)
+    assert "diameter" not in flags
+
+
+def test_no_flag_on_the_bundled_demos(optimized):
+    assert optimized.bounds == []

@@ -28,7 +28,7 @@ DEMOS = {"absorber": ROOT / "scenarios" / "demo_absorber.toml",
          "stripper": ROOT / "scenarios" / "demo_air_stripper.toml"}
 
 #: Keys of a ranked record that belong to the ranking, not to the design.
-RANKING_KEYS = ("rank", "above_best")
+RANKING_KEYS = ("rank", "above_best", "on_search_bounds")   # what only a ranking can say of a design
 
 
 def run(*args):

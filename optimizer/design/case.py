@@ -15,7 +15,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from towercost.errors import ScenarioError
-from towercost.models import costing, economics, efficiency, equilibrium
+from towercost.models import costing, defaults, economics, efficiency, equilibrium
+from towercost.models.constants import STANDARD_ATMOSPHERE
 from towercost.models.properties import ideal_gas_density
 from towercost.design.service import Service, service_for
 from towercost.scenario.schema import Scenario
@@ -90,7 +91,7 @@ class Case:
     trays_range: tuple[int, int]
     ratio_range: tuple[float, float]
     ratio_levels: int
-    larger_diameters: int           # standard sizes above the least one also offered
+    larger_diameters: int | None    # standard sizes above the least one also offered; None: searched
     # per-design limits
     max_height: float               # [m]
     max_diameter: float             # [m]
@@ -105,6 +106,13 @@ class Case:
     economics: Economics
     margin: float                   # near-optimal band
     notes: tuple[str, ...] = ()     # warnings raised while preparing the case
+    # vessel, machines and trays
+    design_pressure: float | None = None      # [Pa gauge] given by the scenario; None: the margin rule
+    design_temperature: float | None = None   # [K] given by the scenario; None: operating plus the margin
+    drive_enclosure: str = "totally_enclosed"  # electric motors of the pump and the gas mover
+    turndown: float = defaults.TURNDOWN       # lowest loads / design loads for the weep check
+    valve_fallback: bool = True               # valve trays where sieve trays fall outside their range
+    shell_modification: float = 0.0           # existing shell: allowance as a fraction of a new shell's C_BM
 
     @property
     def mode(self) -> str:
@@ -223,6 +231,15 @@ def prepare(scenario: Scenario) -> Case:
                           for s, x, t in zip(solutes, feed_in, target) if np.isfinite(t))
         raise ScenarioError(f"[[spec]]: the feed already meets every spec ({shown}); no column is needed")
     shell = col.existing_shell
+    design_p = None if col.design_pressure is None else col.design_pressure - STANDARD_ATMOSPHERE
+    if design_p is not None and design_p < feed.pressure - STANDARD_ATMOSPHERE:
+        raise ScenarioError(f"[column] design_pressure {design_p / 1e5:.4g} barg is below the operating pressure "
+                            f"{(feed.pressure - STANDARD_ATMOSPHERE) / 1e5:.4g} barg; give at least the operating "
+                            "pressure, or leave it out for the margin rule")
+    if col.design_temperature is not None and col.design_temperature < feed.temperature:
+        raise ScenarioError(f"[column] design_temperature {col.design_temperature - 273.15:.4g} degC is below the "
+                            f"operating temperature {feed.temperature - 273.15:.4g} degC; give at least the operating "
+                            "temperature, or leave it out for the margin rule")
     return Case(
         name=scenario.case.name, service=service, agents=tuple(a.name for a in agents), solutes=tuple(solutes),
         feed_flow=feed.flow, temperature=feed.temperature, pressure=feed.pressure,
@@ -243,6 +260,9 @@ def prepare(scenario: Scenario) -> Case:
         capital_budget=eco.capital_budget, max_power=eco.max_power, max_steam=eco.max_steam,
         max_dilute=col.max_dilute, max_flow_change=col.max_flow_change,
         economics=_economics(scenario), margin=eco.margin, notes=tuple(notes),
+        design_pressure=design_p, design_temperature=col.design_temperature, drive_enclosure=col.drive_enclosure,
+        turndown=col.turndown, valve_fallback=col.valve_fallback,
+        shell_modification=shell.modification_allowance if shell else 0.0,
     )
 
 

@@ -1,4 +1,4 @@
-"""The one-column flowsheet: one absorber or stripper with its pump and blower.
+"""The one-column flowsheet: one absorber or stripper with its pump, its gas mover and their motors.
 
 A design is a candidate agent, a count of real trays, an agent rate and a
 shell diameter. ``SingleColumn.evaluate`` prices any set of design points
@@ -6,15 +6,16 @@ exactly, all in one call (numpy broadcasting):
 
     cascade (towercost.design.cascade)  ->  outlets, factors, stages
     internals (towercost.design.internals)  ->  diameter, height, pressure drop
-    vessel (towercost.models.vessel)  ->  design pressure, wall, weights
-    machines (towercost.models.economics)  ->  pump and blower power
+    vessel (towercost.models.vessel)  ->  design pressure, shell and head walls, weights
+    machines (towercost.models.economics)  ->  pump and blower power, priced with their motors
     cost lines (towercost.design.costlines)  ->  capital, operating, annualized
     limits (towercost.design.limits)  ->  within_limits
 
 ``SingleColumn.alternatives`` enumerates the design space in chunks: for each
 agent and tray count, the least rate meeting every spec (exact Kremser
-inverse) and the ratio levels above it; for each rate, the least standard
-diameter and ``larger_diameters`` sizes above it.
+inverse) and the ratio levels above it; ``SingleColumn.shells`` prices each
+rate at the least standard diameter and the wider ones the diameter search
+offers (until the cost has risen for two sizes in a row).
 
 A regenerated agent's regenerator enters only through the scenario's steam
 and cooling water per kg circulated; its equipment is not modelled here.
@@ -24,18 +25,18 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterator
-from dataclasses import dataclass, fields
+from dataclasses import dataclass, field
 
 import numpy as np
 
 from towercost.design import cascade
 from towercost.design.case import Case
 from towercost.design.costlines import (AGENT, COOLING, DISPOSAL, ELECTRICITY, STEAM, Equipment, ItemSpec, Uses,
-                                        annualize, credit_spec, price_item)
-from towercost.design.designs import Designs
-from towercost.design.internals import Loads, Trays
-from towercost.design.limits import RATIO_TOLERANCE, limit_table, limits_met
-from towercost.models import defaults, economics, vessel
+                                        annualize, credit_spec, price_gas_mover, price_item)
+from towercost.design.designs import Designs, Figures
+from towercost.design.internals import LeastCache, Loads, TrayChoice
+from towercost.design.limits import RATIO_TOLERANCE, SPEC_TOLERANCE, limit_table, limits_met
+from towercost.models import defaults, economics, hydraulics, vessel
 from towercost.models.constants import GRAVITY, STANDARD_ATMOSPHERE
 from towercost.models.properties import ideal_gas_density
 
@@ -44,13 +45,43 @@ PLATE = {"carbon_steel": "SA-516-70", "ss304": "SA-240-304", "ss316": "SA-240-31
 
 SHELL = ItemSpec("tower_shell", "T-101", "tower shell", "vessel_vertical")
 PUMP = ItemSpec("pump", "P-101", "liquid feed pump", "pump_centrifugal")
-BLOWER = ItemSpec("blower", "K-101", "gas blower", "blower_centrifugal")
+#: The gas mover: a radial fan within the fan row's pressure range, a blower priced by fluid power above it.
+FAN = ItemSpec("blower", "K-101", "gas fan (radial, priced by inlet flow)", "blower_centrifugal")
+BLOWER = ItemSpec("blower", "K-101", "gas blower (centrifugal, priced by fluid power)", "blower_centrifugal_power")
+
+#: Cost-table row of an electric motor drive, by enclosure ([column] drive_enclosure).
+DRIVE_ROWS = {"totally_enclosed": "drive_electric_enclosed", "explosion_proof": "drive_electric_explosion_proof",
+              "open_drip_proof": "drive_electric_open"}
+
+
+def drive_specs(enclosure: str) -> tuple[ItemSpec, ItemSpec]:
+    """The motors of the pump and of the gas mover, priced on the shaft power they deliver."""
+    words = enclosure.replace("_", " ").replace("open drip proof", "open/drip-proof")
+    row = DRIVE_ROWS[enclosure]
+    return (ItemSpec("pump_drive", "PM-101", f"pump motor ({words})", row),
+            ItemSpec("blower_drive", "KM-101", f"gas mover motor ({words})", row))
+
+
+def shell_spec(case: Case) -> ItemSpec:
+    """The tower shell row: a new shell, or an existing one charged only its modification allowance."""
+    if case.shell_diameter is None:
+        return SHELL
+    return ItemSpec(SHELL.key, SHELL.tag, f"tower shell, existing (modifications at {100 * case.shell_modification:g} % "
+                    "of a new shell)", SHELL.correlation)
 
 #: Rate grid points closer than this (relative) to the least rate are not offered again.
 SAME_RATE = 1e-9
 
 #: Alternatives evaluated per call when the space is enumerated in chunks.
-CHUNK = 1 << 16
+CHUNK = 1 << 17
+
+#: Diameter search: standard sizes above the least one that may be tried (a cap: 30 x 6 in = 4.6 m),
+#: and how many sizes in a row the cost must rise before the search stops.
+MAX_WIDER = 30
+RISES = 2
+
+#: Shell sizes per rate a searched space holds on the demo cases (3 to 5): sizes its batches.
+TYPICAL_SIZES = 4
 
 
 @dataclass(frozen=True)
@@ -62,11 +93,38 @@ class Separation:
     rate: np.ndarray
     figures: dict[str, np.ndarray]
     loads: Loads
+    cache: LeastCache = field(default=None)   # least shells per tray type, found once for every size tried
+    fixed: list = field(default_factory=list)  # the Fixed part, once found (priced without messages)
+
+    def __post_init__(self):
+        if self.cache is None:
+            object.__setattr__(self, "cache", LeastCache(self.rate.shape[0]))
 
     def take(self, index) -> "Separation":
         return Separation(self.agent[index], self.trays[index], self.rate[index],
-                          {k: v[index] for k, v in self.figures.items()},
-                          Loads(*(getattr(self.loads, f.name)[index] for f in fields(Loads))))
+                          Figures(source=self.figures, index=index), self.loads.take(index),
+                          self.cache.take(index), [f.take(index) for f in self.fixed])
+
+
+@dataclass(frozen=True)
+class Fixed:
+    """What the shell's diameter does not change beyond the separation: the pump, the gas flow, the uses."""
+
+    q_liquid: np.ndarray            # [m3/s] pumped
+    pump_rise: np.ndarray           # [Pa]
+    pump_shaft: np.ndarray          # [W]
+    q_gas: np.ndarray               # [m3/s] at the gas mover's inlet
+    items: tuple                    # the pump and its motor (ItemCost rows)
+    uses: tuple                     # (UseSpec, rate, unit price) rows other than electricity
+    figures: dict                   # purge, steam and cooling rates
+
+    def take(self, index) -> "Fixed":
+        def part(value):
+            return value[index] if np.ndim(value) else value
+        return Fixed(self.q_liquid[index], self.pump_rise[index], self.pump_shaft[index], self.q_gas[index],
+                     tuple(item.take(index) for item in self.items),
+                     tuple((spec, part(rate), part(price)) for spec, rate, price in self.uses),
+                     {k: v[index] for k, v in self.figures.items()})
 
 
 @dataclass(frozen=True)
@@ -78,6 +136,7 @@ class Chunk:
     rate: np.ndarray
     diameter: np.ndarray     # NaN: the least standard size
     least: np.ndarray        # the least rate of its (agent, trays) group
+    progress: tuple[int, int] = (0, 0)   # (agent, trays) groups enumerated so far, and in all
 
 
 class SingleColumn:
@@ -86,7 +145,10 @@ class SingleColumn:
     def __init__(self, case: Case):
         self.case = case
         self.service = case.service
-        self.internals = Trays(case.tray, case.tray_spacing, case.flood_fraction, case.material)
+        self.internals = TrayChoice(case.tray, case.tray_spacing, case.flood_fraction, case.material,
+                                    case.turndown, case.valve_fallback)
+        self.shell = shell_spec(case)
+        self.pump_drive, self.blower_drive = drive_specs(case.drive_enclosure)
         #: least rate of each agent with unlimited stages [mol/s]: a property of the agent alone
         self.rate_min = cascade.minimum_rate(case, np.arange(len(case.agents)))
 
@@ -106,14 +168,24 @@ class SingleColumn:
         return grid_agent.ravel(), grid_trays.ravel()
 
     def diameters_per_rate(self) -> int:
+        """The most shell sizes one separated design point is priced at."""
         case = self.case
-        return 1 if case.shell_diameter is not None else 1 + case.larger_diameters
+        if case.shell_diameter is not None:
+            return 1
+        return 1 + (MAX_WIDER if case.larger_diameters is None else case.larger_diameters)
 
     def estimate(self) -> int:
         """An upper bound on the alternatives ``alternatives`` yields, without evaluating anything."""
         case = self.case
         n_groups = len(case.agents) * (case.trays_range[1] - case.trays_range[0] + 1)
         return n_groups * (case.ratio_levels + 1) * self.diameters_per_rate()
+
+    def typical(self) -> int:
+        """About how many alternatives the space holds: ``estimate`` with a few sizes per rate when searched."""
+        case = self.case
+        per_rate = self.diameters_per_rate() if case.larger_diameters is not None else TYPICAL_SIZES
+        n_groups = len(case.agents) * (case.trays_range[1] - case.trays_range[0] + 1)
+        return n_groups * (case.ratio_levels + 1) * min(per_rate, self.diameters_per_rate())
 
     def alternatives(self, agents=None, chunk: int = CHUNK) -> Iterator[Chunk]:
         """The design space in batches of about ``chunk`` alternatives."""
@@ -124,9 +196,9 @@ class SingleColumn:
         least = np.maximum(cascade.least_rate(case, grid_agent, grid_trays), lo * rate_min)
         levels = self.rate_grid()
         reach = np.isfinite(least) & (least <= hi * rate_min * (1 + RATIO_TOLERANCE))
-        per_rate = self.diameters_per_rate()
+        per_rate = self.diameters_per_rate() if case.larger_diameters is not None else TYPICAL_SIZES
         groups = np.flatnonzero(reach)
-        per_group = (1 + levels.size) * per_rate
+        per_group = (1 + levels.size) * min(per_rate, self.diameters_per_rate())
         step = max(1, chunk // per_group)
         for start in range(0, groups.size, step):
             g = groups[start:start + step]
@@ -136,24 +208,69 @@ class SingleColumn:
             group = np.concatenate([g, g[g_idx]])
             rate = np.concatenate([least[g], grid_rates[g_idx, l_idx]])
             is_least = np.concatenate([np.ones(g.size, bool), np.zeros(g_idx.size, bool)])
-            yield Chunk(grid_agent[group], grid_trays[group], rate, np.full(rate.shape, np.nan), is_least)
+            yield Chunk(grid_agent[group], grid_trays[group], rate, np.full(rate.shape, np.nan), is_least,
+                        (min(start + step, groups.size), groups.size))
 
-    def wider(self, base: Designs) -> list[np.ndarray]:
-        """The larger standard diameters offered beside each base design, one array per size step."""
+    def shells(self, separation: Separation) -> Iterator[tuple[np.ndarray, Designs]]:
+        """The separated points priced at each shell size offered: the least first, then wider ones.
+
+        Yields (positions in ``separation``, their designs at one more size).
+        The sizes offered for each point:
+
+        * an existing shell: that one only;
+        * ``[column] larger_diameters`` given: the least size and that many above it;
+        * otherwise the least size and each next standard size (6 in) until
+          the cost has risen for ``RISES`` sizes in a row, the trays weep at
+          the turndown loads (a wider shell only weeps more: the operating
+          range ends), the next size exceeds ``max_diameter``, or ``MAX_WIDER``
+          sizes have been tried. Where valve trays take the place of sieve
+          trays that weep, the wider shells of that design take them at once. The cheapest size of a point is then never
+          the widest tried, unless one of the last two ends it.
+        """
         case = self.case
-        if case.shell_diameter is not None or case.larger_diameters == 0:
-            return []
-        steps = np.arange(1, case.larger_diameters + 1)
-        return list(self.internals.larger(base.diameter, steps).T)
+        n = separation.rate.shape[0]
+        start = np.full(n, np.nan if case.shell_diameter is None else case.shell_diameter)
+        base = self.price(separation, start, messages=False)
+        everyone = np.arange(n)
+        yield everyone, base
+        if case.shell_diameter is not None:
+            return
+        if case.larger_diameters is not None:
+            for wider in self.internals.kinds[0].larger(base.diameter, np.arange(1, case.larger_diameters + 1)).T:
+                yield everyone, self.price(separation, wider, messages=False)
+            return
+        cost, diameter = base.annualized.copy(), base.diameter.copy()
+        rises = np.zeros(n, dtype=np.int8)
+        fallback = self.internals.fallback
+        # -1: the tray rule; once the scenario's trays weep and valve trays take their place, the wider
+        # shells of that design take valve trays at once (a wider shell only weeps more)
+        tray = np.where(base.tray_type == fallback, base.tray_type, -1).astype(np.int8)
+        active = everyone[base.weep_ratio >= 1.0]
+        limit = case.max_diameter * (1.0 + SPEC_TOLERANCE)
+        for _ in range(MAX_WIDER):
+            wider = hydraulics.standard_diameter(diameter[active] + hydraulics.STANDARD_DIAMETER_STEP)
+            inside = wider <= limit
+            active, wider = active[inside], wider[inside]
+            if active.size == 0:
+                return
+            designs = self.price(separation.take(active), wider, tray[active], messages=False)
+            yield active, designs
+            rose = designs.annualized > cost[active]
+            rises[active] = np.where(rose, rises[active] + 1, 0)
+            cost[active], diameter[active] = designs.annualized, wider
+            tray[active] = np.where(designs.tray_type == fallback, designs.tray_type, -1)
+            active = active[(rises[active] < RISES) & (designs.weep_ratio >= 1.0)]
 
     # ----------------------------------------------------------------- evaluation
 
-    def evaluate(self, agent, trays, rate, diameter=None) -> Designs:
+    def evaluate(self, agent, trays, rate, diameter=None, tray=None) -> Designs:
         """Evaluate design points exactly.
 
         Arrays of agent index, real trays, agent rate [mol/s] and, optionally,
-        the shell diameter [m] (NaN or None: the least standard size the
-        flooding limit allows, or the scenario's existing shell).
+        the shell diameter [m] (NaN or None: the least standard size that
+        flooding and the downcomers allow, or the scenario's existing shell)
+        and the tray type (index into ``internals.TRAY_TYPES``; None: the
+        scenario's trays, valve trays where those fall outside their range).
         """
         case = self.case
         if diameter is None:
@@ -161,7 +278,9 @@ class SingleColumn:
         agent, trays, rate, diameter = (a.ravel() for a in np.broadcast_arrays(
             np.asarray(agent, dtype=int), np.asarray(trays, dtype=float), np.asarray(rate, dtype=float),
             np.asarray(diameter, dtype=float)))
-        return self.price(self.separate(agent, trays, rate), diameter)
+        if tray is not None:
+            tray = np.broadcast_to(np.asarray(tray, dtype=np.int8), agent.shape)
+        return self.price(self.separate(agent, trays, rate), diameter, tray)
 
     def separate(self, agent, trays, rate) -> Separation:
         """What a design's diameter does not change: the cascade, the flows and the column loads."""
@@ -175,91 +294,132 @@ class SingleColumn:
         gas_mass = gas * case.gas_molar_mass[agent]
         loads = Loads(gas_mass, liquid_mass, case.gas_density[agent], case.liquid_density[agent],
                       case.surface_tension[agent])
-        figures = dict(rate_min=rate_min, ratio=ratio, factor=factor, stages=stages, outlet=out,
-                       agent_outlet=agent_out, meets_spec=cascade.meets_spec(case, out), liquid_flow=liquid,
+        with np.errstate(divide="ignore", invalid="ignore"):
+            share = np.where(np.isfinite(case.target), out / case.target, 0.0)   # outlet over its spec
+        figures = dict(rate_min=rate_min, ratio=ratio, factor=factor, stages=stages,
+                       efficiency=stages / np.maximum(trays, 1.0)[:, None], controlling=np.argmax(share, axis=-1),
+                       outlet=out, agent_outlet=agent_out, meets_spec=cascade.meets_spec(case, out), liquid_flow=liquid,
                        gas_flow=gas, liquid_mass_flow=liquid_mass, gas_mass_flow=gas_mass)
         return Separation(agent, trays, rate, figures, loads)
 
-    def price(self, separation: Separation, diameter) -> Designs:
-        """Size, price and check the separated design points at shell ``diameter`` [m] (NaN: the least size)."""
+    def price(self, separation: Separation, diameter, tray=None, *, messages: bool = True) -> Designs:
+        """Size, price and check the separated design points at shell ``diameter`` [m] (NaN: the least size).
+
+        ``tray``: the tray type of each point (None: the scenario's rule). With
+        ``messages`` False no range message is gathered (the space's pass: only
+        re-evaluated designs are reported).
+        """
         case, service = self.case, self.service
         agent, trays, rate = separation.agent, separation.trays, separation.rate
         loads = separation.loads
-        liquid_mass, gas_mass, rho_l = loads.liquid_mass_flow, loads.gas_mass_flow, loads.liquid_density
-        notes: list[str] = list(case.notes)
-        size = self.internals.size(loads, trays, diameter, warnings=notes)
+        notes: list[str] | None = list(case.notes) if messages else None
+        size, least = self.internals.size(loads, trays, diameter, tray, cache=separation.cache, warnings=notes)
         diameter, height = size.diameter, size.height
 
-        # Vessel: estimating figures only, not a mechanical design.
+        # Vessel: estimating figures only, not a mechanical design. A design pressure or
+        # temperature the scenario gives replaces the margin rule.
         plate = PLATE[case.material]
-        p_design = vessel.design_pressure(case.pressure, warnings=notes)
-        t_design = vessel.design_temperature(case.temperature)
+        if case.design_pressure is None:
+            p_design = vessel.design_pressure(case.pressure, warnings=notes)
+        else:
+            p_design = case.design_pressure
+        if case.design_temperature is None:
+            t_design = vessel.design_temperature(case.temperature)
+        else:
+            t_design = case.design_temperature
         stress = vessel.allowable_stress(plate, t_design, warnings=notes)
         wall = vessel.wall_thickness(p_design, diameter, stress, warnings=notes)
-        head = vessel.round_up_to_plate(vessel.head_thickness(p_design, diameter, stress))
-        shell_kg = vessel.shell_weight(diameter, height, wall, vessel.metal_density(plate))
+        head = vessel.head_wall_thickness(p_design, diameter, stress, warnings=notes)
+        density = vessel.metal_density(plate)
+        shell_kg = vessel.cylinder_weight(diameter, height, wall, density)
+        heads_kg = 2.0 * vessel.head_weight(diameter, head, density)
         trays_kg = vessel.tray_weight(diameter, trays)
         area = math.pi / 4.0 * diameter**2
         volume = area * height
 
-        # Pump for the liquid fed to the top; blower for the gas fed to the bottom.
-        q_liquid = liquid_mass / rho_l
-        pump_rise = (np.maximum(case.pressure - case.supply_pressure, 0.0) + rho_l * GRAVITY * height
-                     + defaults.PUMP_ALLOWANCE)
-        pump_shaft = economics.pump_power(q_liquid, pump_rise, case.pump_efficiency)
+        # Pump for the liquid fed to the top; gas mover for the gas fed to the bottom.
+        if separation.fixed and not messages:
+            fixed = separation.fixed[0]
+        else:
+            fixed = self._fixed(separation, height, notes)
+            if not messages:
+                separation.fixed.append(fixed)
+        pump_shaft, q_gas = fixed.pump_shaft, fixed.q_gas
         gas_supply = service.gas_supply_pressure(case.pressure)
         blower_rise = size.pressure_drop + defaults.BLOWER_ALLOWANCE + max(case.pressure - gas_supply, 0.0)
-        q_gas = gas_mass / ideal_gas_density(gas_supply, case.temperature, case.gas_molar_mass[agent])
         blower_shaft = economics.blower_power(q_gas, gas_supply, blower_rise, case.blower_efficiency)
         electric = (economics.electric_power(pump_shaft, case.motor_efficiency)
                     + economics.electric_power(blower_shaft, case.motor_efficiency))
 
         # Equipment rows, each at its correlation's cost basis.
         p_gauge = np.maximum(p_design, 0.0)
-        pump_discharge = case.supply_pressure + pump_rise - STANDARD_ATMOSPHERE
-        items = [price_item(SHELL, volume, material=case.material, pressure_gauge=p_gauge, diameter=diameter,
-                            warnings=notes)]
-        items += self.internals.items(diameter, trays, warnings=notes)
-        items += [price_item(PUMP, pump_shaft / 1000.0, material=case.material, pressure_gauge=pump_discharge,
-                             warnings=notes),
-                  price_item(BLOWER, q_gas, pressure_gauge=blower_rise, warnings=notes)]
+        shell = price_item(SHELL, volume, material=case.material, pressure_gauge=p_gauge, diameter=diameter,
+                           warnings=notes)
+        if case.shell_diameter is not None:   # reused: only the modification allowance is charged
+            shell = shell.scaled(case.shell_modification, self.shell)
+        items = [shell]
+        items += self.internals.items(diameter, trays, size.tray_type, warnings=notes)
+        items += [*fixed.items,
+                  price_gas_mover(FAN, BLOWER, q_gas, blower_rise, warnings=notes),
+                  price_item(self.blower_drive, blower_shaft / 1000.0, warnings=notes)]
         equipment = Equipment.stack(items)
 
         # Consumption rows.
+        eco = case.economics
+        uses = Uses.stack([(ELECTRICITY, electric, eco.electricity), *fixed.uses])
+        annual = annualize(equipment, uses, eco)
+
+        figures = Figures(dict(
+            flow_parameter=size.flow_parameter, flooding_velocity=size.flooding_velocity,
+            diameter_required=size.diameter_required, diameter_flooding=least.flooding, diameter_least=least.diameter,
+            fraction_of_flood=size.fraction_of_flood, tray_type=size.tray_type, weep_ratio=size.weep_ratio,
+            entrainment=size.entrainment, backup_fraction=size.backup_fraction, residence_time=size.residence_time,
+            range_use=size.range_use, range_governs=size.range_governs, height=height, pressure_drop_per_tray=size.pressure_drop_per_tray, pressure_drop=size.pressure_drop,
+            design_pressure=np.broadcast_to(p_design, rate.shape).astype(float),
+            design_temperature=np.broadcast_to(t_design, rate.shape).astype(float),
+            wall_thickness=wall, head_thickness=np.broadcast_to(head, rate.shape).astype(float), shell_weight=shell_kg,
+            head_weight=heads_kg, vessel_weight=shell_kg + heads_kg, tray_weight=trays_kg, volume=volume,
+            cross_section=area, liquid_volumetric_flow=fixed.q_liquid, pump_head=fixed.pump_rise,
+            pump_shaft_power=pump_shaft, gas_inlet_flow=q_gas, blower_rise=blower_rise, blower_shaft_power=blower_shaft,
+            electric_power=electric, **fixed.figures,
+            bare_module=annual.bare_module, total_module=annual.total_module, installed=annual.installed,
+            operating=annual.operating, credit=annual.credit, capital_charge=annual.capital_charge,
+            annualized=annual.annualized,
+            escalation=np.broadcast_to(annual.escalation, rate.shape + annual.escalation.shape[-1:]),
+        ), separation.figures)
+        designs = Designs(agent, trays.astype(int), rate, diameter, figures, equipment, uses, notes or [],
+                          use_cost_rows=annual.use_cost)
+        designs.limits = limit_table(case, designs)
+        designs.figures["within_limits"] = limits_met(designs.limits, len(designs))
+        return designs
+
+    def _fixed(self, separation: Separation, height, notes) -> Fixed:
+        """The pump and its motor, the gas flow and the uses other than electricity: no diameter in them."""
+        case, service = self.case, self.service
+        agent, loads = separation.agent, separation.loads
+        liquid_mass, gas_mass, rho_l = loads.liquid_mass_flow, loads.gas_mass_flow, loads.liquid_density
+        q_liquid = liquid_mass / rho_l
+        pump_rise = (np.maximum(case.pressure - case.supply_pressure, 0.0) + rho_l * GRAVITY * height
+                     + defaults.PUMP_ALLOWANCE)
+        pump_shaft = economics.pump_power(q_liquid, pump_rise, case.pump_efficiency)
+        gas_supply = service.gas_supply_pressure(case.pressure)
+        q_gas = gas_mass / ideal_gas_density(gas_supply, case.temperature, case.gas_molar_mass[agent])
+        pump_discharge = case.supply_pressure + pump_rise - STANDARD_ATMOSPHERE
+        items = (price_item(PUMP, pump_shaft / 1000.0, material=case.material, pressure_gauge=pump_discharge,
+                            warnings=notes),
+                 price_item(self.pump_drive, pump_shaft / 1000.0, warnings=notes))
         agent_mass = liquid_mass if service.agent_is_liquid else gas_mass
         regen = case.regenerated[agent]
         purge = np.where(regen, case.loss[agent] * agent_mass, agent_mass)
         steam_rate = np.where(regen, case.steam_ratio[agent] * agent_mass, 0.0)
         cooling_rate = np.where(regen, case.cooling_ratio[agent] * agent_mass, 0.0)
         eco = case.economics
-        rows = [(ELECTRICITY, electric, eco.electricity), (AGENT, purge, case.price[agent]),
-                (DISPOSAL, purge, case.disposal[agent]), (STEAM, steam_rate, eco.steam),
-                (COOLING, cooling_rate, eco.cooling_water)]
+        rows = [(AGENT, purge, case.price[agent]), (DISPOSAL, purge, case.disposal[agent]),
+                (STEAM, steam_rate, eco.steam), (COOLING, cooling_rate, eco.cooling_water)]
         removed = case.feed_in - separation.figures["outlet"]  # per mol of treated stream
         for s, solute in enumerate(case.solutes):
             if case.credit[s] > 0:
                 rows.append((credit_spec(solute), np.where(regen, case.feed_flow * removed[:, s], 0.0),
                              case.credit[s]))
-        uses = Uses.stack(rows)
-        annual = annualize(equipment, uses, eco)
-
-        figures = dict(
-            **separation.figures, flow_parameter=size.flow_parameter, flooding_velocity=size.flooding_velocity,
-            diameter_required=size.diameter_required, fraction_of_flood=size.fraction_of_flood_at_standard_diameter,
-            height=height, pressure_drop_per_tray=size.pressure_drop_per_tray, pressure_drop=size.pressure_drop,
-            design_pressure=np.broadcast_to(p_design, rate.shape).astype(float),
-            design_temperature=np.broadcast_to(t_design, rate.shape).astype(float),
-            wall_thickness=wall, head_thickness=head, shell_weight=shell_kg, tray_weight=trays_kg, volume=volume,
-            cross_section=area, liquid_volumetric_flow=q_liquid, pump_head=pump_rise, pump_shaft_power=pump_shaft,
-            gas_inlet_flow=q_gas, blower_rise=blower_rise, blower_shaft_power=blower_shaft,
-            electric_power=electric, steam_rate=steam_rate, cooling_rate=cooling_rate, makeup_rate=purge,
-            bare_module=annual.bare_module, total_module=annual.total_module, installed=annual.installed,
-            operating=annual.operating, credit=annual.credit, capital_charge=annual.capital_charge,
-            annualized=annual.annualized,
-            escalation=np.broadcast_to(annual.escalation, rate.shape + annual.escalation.shape[-1:]),
-        )
-        designs = Designs(agent, trays.astype(int), rate, diameter, figures, equipment, uses, notes,
-                          use_cost_rows=annual.use_cost)
-        designs.limits = limit_table(case, designs)
-        designs.figures["within_limits"] = limits_met(designs.limits, len(designs))
-        return designs
+        return Fixed(q_liquid, pump_rise, pump_shaft, q_gas, items, tuple(rows),
+                     dict(steam_rate=steam_rate, cooling_rate=cooling_rate, makeup_rate=purge))

@@ -18,6 +18,12 @@ then have shape ``(S, n)``.
 
 Adding an item: one row in ``models/data/equipment_cost.toml``, one
 ``ItemSpec`` and one call of ``price_item`` in the flowsheet that has it.
+
+A row may switch correlation from one design point to the next (a gas
+mover is a fan up to the fan row's pressure range and a blower priced by
+fluid power above it; trays are sieve or valve trays): its ``variants``
+name the specs it switches between (same key, tag and cost basis) and
+``variant`` says which one priced each point (``merge_rows``).
 """
 
 from __future__ import annotations
@@ -58,6 +64,10 @@ class ItemSpec:
         return costing.correlation(self.correlation).index_basis
 
 
+#: The per-point arrays of an ``ItemCost``.
+ITEM_ARRAYS = ("size", "purchased", "bare_module", "bare_module_base", "in_range", "variant")
+
+
 @dataclass
 class ItemCost:
     """One equipment row priced over the design points, at its correlation's cost basis [USD]."""
@@ -69,6 +79,31 @@ class ItemCost:
     bare_module_base: np.ndarray  # bare-module cost in carbon steel at ambient pressure (for C_GR)
     in_range: np.ndarray          # the size lies inside the correlation's fitted range
     material: str
+    variants: tuple[ItemSpec, ...] = ()   # the specs the row switches between; () is ``spec`` alone
+    variant: np.ndarray | None = None     # index into ``variants`` per point (None: all the first)
+
+    def __post_init__(self):
+        if not self.variants:
+            self.variants = (self.spec,)
+        if self.variant is None:
+            self.variant = np.zeros(np.shape(self.bare_module), dtype=np.int8)
+        if len(self.variants) > 1 and len({v.basis for v in self.variants}) != 1:
+            raise ValueError(f"the variants of {self.spec.key} must share one cost basis")
+
+    def take(self, index) -> "ItemCost":
+        shape = np.shape(self.bare_module)
+        return ItemCost(self.spec, *(np.broadcast_to(getattr(self, a), shape)[index] for a in ITEM_ARRAYS[:5]),
+                        self.material, self.variants, np.broadcast_to(self.variant, shape)[index])
+
+    def spec_at(self, i: int) -> ItemSpec:
+        """The spec (correlation, kind) that priced design point ``i``."""
+        return self.variants[int(np.broadcast_to(self.variant, np.shape(self.bare_module))[i])]
+
+    def scaled(self, factor: float, spec: ItemSpec | None = None) -> "ItemCost":
+        """The row with every cost multiplied by ``factor`` (an allowance on a new item's cost)."""
+        return ItemCost(spec or self.spec, self.size, self.purchased * factor, self.bare_module * factor,
+                        self.bare_module_base * factor, self.in_range, self.material,
+                        (spec,) if spec is not None else self.variants, self.variant)
 
 
 def price_item(spec: ItemSpec, size, *, material: str = "carbon_steel", pressure_gauge=0.0, diameter=None,
@@ -77,15 +112,76 @@ def price_item(spec: ItemSpec, size, *, material: str = "carbon_steel", pressure
 
     ``count`` is the number of identical pieces priced by one size (trays);
     ``pressure_gauge`` is the operating gauge pressure [Pa] (the pressure
-    rise for a blower); ``diameter`` [m] is needed by vessels.
+    rise for a blower); ``diameter`` [m] is needed by vessels. Every
+    out-of-range message (size, pressure factor) goes to ``warnings``.
     """
     size = np.asarray(size, dtype=float)
-    one = costing.purchased_cost(spec.correlation, size, warnings=warnings)
+    local: list[str] | None = None if warnings is None else []
+    one = costing.purchased_cost(spec.correlation, size, warnings=local)
     bare = costing.bare_module_cost(spec.correlation, size, material=material, pressure_gauge=pressure_gauge,
-                                    diameter=diameter, trays=count, purchased=one)
+                                    diameter=diameter, trays=count, purchased=one, warnings=local)
     base = costing.bare_module_cost(spec.correlation, size, diameter=diameter, trays=count, purchased=one)
     purchased = one if count is None else one * count
+    if local:   # each message names the item it is about
+        warnings.extend(f"{spec.tag} {spec.kind}: {message}" for message in local)
     return ItemCost(spec, size, purchased, bare, base, costing.size_in_range(spec.correlation, size), material)
+
+
+def merge_rows(parts: list[tuple[np.ndarray, ItemCost]], n: int, spec: ItemSpec,
+               variants: tuple[ItemSpec, ...]) -> ItemCost:
+    """One row over ``n`` points from rows priced on parts of them.
+
+    ``parts`` pairs the positions of each part with its row; each part's
+    spec must be one of ``variants``, which the merged row's ``variant``
+    indexes. The material is the first part's.
+    """
+    out = {"size": np.empty(n), "purchased": np.empty(n), "bare_module": np.empty(n),
+           "bare_module_base": np.empty(n), "in_range": np.empty(n, dtype=bool),
+           "variant": np.empty(n, dtype=np.int8)}
+    keys = [v.correlation for v in variants]
+    for index, row in parts:
+        for name in ITEM_ARRAYS[:-1]:
+            out[name][index] = np.broadcast_to(getattr(row, name), np.shape(index))
+        out["variant"][index] = keys.index(row.spec.correlation)
+    material = parts[0][1].material if parts else "carbon_steel"
+    return ItemCost(spec, out["size"], out["purchased"], out["bare_module"], out["bare_module_base"],
+                    out["in_range"], material, variants, out["variant"])
+
+
+def price_gas_mover(fan: ItemSpec, blower: ItemSpec, volumetric_flow, pressure_rise, *,
+                    material: str = "carbon_steel", warnings: list[str] | None = None) -> ItemCost:
+    r"""The machine that moves a gas stream: a fan up to the fan row's pressure range, a blower above it.
+
+        dP <= 16 kPa:  ``fan`` row, sized on the inlet flow Q, with its pressure factor F_P(dP)
+        dP >  16 kPa:  ``blower`` row, sized on the fluid power Q dP (``costing.fluid_power``)
+
+    as ``towercost.models.costing.gas_mover_bare_module_cost`` prices it
+    (``costing.FAN_RISE_LIMIT``); here each point also keeps its purchased
+    cost, size and range flag. Points above the fan's range get a warning
+    naming the step in cost the two rows make there.
+    """
+    flow, rise = (np.asarray(a, dtype=float) for a in np.broadcast_arrays(volumetric_flow, pressure_rise))
+    above = rise > costing.FAN_RISE_LIMIT
+    variants = (fan, blower)
+    if not np.any(above):
+        row = price_item(fan, flow, material=material, pressure_gauge=rise, warnings=warnings)
+        return ItemCost(fan, row.size, row.purchased, row.bare_module, row.bare_module_base, row.in_range,
+                        material, variants)
+    if warnings is not None:
+        warnings.append(
+            f"{fan.tag} gas mover: pressure rise of {int(above.sum())} of {above.size} points ({float(rise[above].min()) / 1e3:.4g}"
+            f" to {float(rise[above].max()) / 1e3:.4g} kPa) is above the {costing.FAN_RISE_LIMIT / 1e3:g} kPa of the fan "
+            "correlation's pressure factor; priced as a centrifugal blower by fluid power (Turton Table A.1), a row that "
+            "does not meet the fan's at 16 kPa: expect a step in cost there")
+    parts = []
+    fan_at = np.flatnonzero(~above)
+    if fan_at.size:
+        parts.append((fan_at, price_item(fan, flow[fan_at], material=material, pressure_gauge=rise[fan_at],
+                                         warnings=warnings)))
+    blower_at = np.flatnonzero(above)
+    parts.append((blower_at, price_item(blower, costing.fluid_power(flow[blower_at], rise[blower_at]),
+                                        material=material, warnings=warnings)))
+    return merge_rows(parts, flow.size, fan, variants)
 
 
 def _table(rows, attr: str, dtype=float) -> np.ndarray:
@@ -107,7 +203,7 @@ class Equipment:
 
     def __init__(self, items: list[ItemCost]):
         self.items = list(items)
-        self.specs = tuple(i.spec for i in self.items)
+        self.specs = tuple(i.spec for i in self.items)   # each row's first spec: key, tag
         self.materials = tuple(i.material for i in self.items)
         self.basis = np.array([spec.basis for spec in self.specs])   # (items,) cost index of each correlation
         self._tables: dict[str, np.ndarray] = {}
@@ -125,20 +221,26 @@ class Equipment:
     bare_module_base = property(lambda self: self._get("bare_module_base"))
     in_range = property(lambda self: self._get("in_range"))
 
+    def spec_at(self, i: int, j: int) -> ItemSpec:
+        """The spec (correlation, kind) that priced row ``j`` at design point ``i``."""
+        return self.items[j].spec_at(i)
+
     def take(self, index) -> "Equipment":
-        return Equipment([ItemCost(i.spec, *(np.broadcast_to(getattr(i, a), np.shape(i.bare_module))[index]
-                                             for a in ("size", "purchased", "bare_module", "bare_module_base",
-                                                       "in_range")), i.material) for i in self.items])
+        return Equipment([i.take(index) for i in self.items])
 
     @classmethod
     def concatenate(cls, parts: list["Equipment"]) -> "Equipment":
         rows = []
         for j, item in enumerate(parts[0].items):
             pieces = [p.items[j] for p in parts]
+            variants = item.variants
+            for q in pieces:
+                if q.variants != variants:
+                    raise ValueError(f"row {item.spec.key}: parts switch between different correlations")
             rows.append(ItemCost(item.spec, *(np.concatenate([np.broadcast_to(getattr(q, a), np.shape(q.bare_module))
                                                               for q in pieces])
-                                              for a in ("size", "purchased", "bare_module", "bare_module_base",
-                                                        "in_range")), item.material))
+                                              for a in ITEM_ARRAYS[:5]), item.material, variants,
+                                 np.concatenate([np.broadcast_to(q.variant, np.shape(q.bare_module)) for q in pieces])))
         return cls(rows)
 
     def escalation(self, index_to) -> np.ndarray:

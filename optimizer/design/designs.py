@@ -10,6 +10,7 @@ table with one row per design and one column per figure.
 
 from __future__ import annotations
 
+from collections.abc import MutableMapping
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -22,6 +23,8 @@ FIGURES: dict[str, tuple[str, str]] = {
     "ratio": ("-", "agent rate over its minimum (L/Lmin or G/Gmin)"),
     "factor": ("-", "absorption factor A or stripping factor S, per solute"),
     "stages": ("-", "theoretical stages, per solute"),
+    "efficiency": ("-", "overall tray efficiency, theoretical stages over real trays, per solute"),
+    "controlling": ("", "the solute nearest its spec (outlet over spec largest), index into case.solutes"),
     "outlet": ("-", "treated-stream outlet mole fraction, per solute"),
     "agent_outlet": ("-", "agent outlet mole fraction, per solute"),
     "meets_spec": ("", "every solute meets its spec"),
@@ -33,15 +36,26 @@ FIGURES: dict[str, tuple[str, str]] = {
     "flow_parameter": ("-", "flow parameter F_LV of the flooding correlation"),
     "flooding_velocity": ("m/s", "gas velocity at flood on the net area"),
     "diameter_required": ("m", "diameter at the design fraction of flood"),
+    "diameter_flooding": ("m", "least standard shell at the design fraction of flood"),
+    "diameter_least": ("m", "least standard shell meeting flooding and the downcomer limits"),
     "fraction_of_flood": ("-", "fraction of flood at the shell diameter"),
+    "tray_type": ("", "tray type, index into towercost.design.internals.TRAY_TYPES"),
+    "weep_ratio": ("-", "sieve: hole velocity at the turndown loads over the weep point; valve: turndown margin"),
+    "entrainment": ("-", "fractional entrainment at the design loads (Fair's chart)"),
+    "backup_fraction": ("-", "downcomer back-up over tray spacing plus weir height"),
+    "residence_time": ("s", "liquid residence time in the downcomer"),
+    "range_use": ("-", "largest utilization of the operating-range limits; at most 1 inside the range"),
+    "range_governs": ("", "limit nearest its bound, index into towercost.models.hydraulics.LIMIT_NAMES"),
     "height": ("m", "tangent-to-tangent height"),
     "pressure_drop_per_tray": ("Pa", "gas pressure drop per tray"),
     "pressure_drop": ("Pa", "gas pressure drop of the column"),
     "design_pressure": ("Pa gauge", "vessel design pressure"),
     "design_temperature": ("K", "vessel design temperature"),
     "wall_thickness": ("m", "shell plate thickness"),
-    "head_thickness": ("m", "head plate thickness"),
-    "shell_weight": ("kg", "shell and heads metal"),
+    "head_thickness": ("m", "head plate thickness (pressure or rigidity, plus corrosion allowance)"),
+    "shell_weight": ("kg", "cylindrical shell metal, tangent to tangent"),
+    "head_weight": ("kg", "metal of the two 2:1 ellipsoidal heads"),
+    "vessel_weight": ("kg", "shell and heads metal"),
     "tray_weight": ("kg", "tray metal"),
     "volume": ("m3", "shell volume (the vessel cost basis)"),
     "cross_section": ("m2", "tower cross-section (the tray cost basis)"),
@@ -73,6 +87,47 @@ DERIVED = {
 }
 
 DECISIONS = ("agent", "trays", "rate", "diameter")
+
+
+class Figures(MutableMapping):
+    """Figures by name: arrays of its own, then those of ``source`` (at ``index``), gathered when first read.
+
+    Pricing a part of a separated batch at a wider shell reads only a few
+    of the batch's figures; the others are gathered only if asked for.
+    """
+
+    def __init__(self, own: dict | None = None, source=None, index=None):
+        self._own = dict(own or {})
+        self._source = source
+        self._index = index
+
+    def __getitem__(self, key):
+        if key in self._own:
+            return self._own[key]
+        if self._source is None or key not in self._source:
+            raise KeyError(key)
+        value = self._source[key]
+        if self._index is not None:
+            value = value[self._index]
+        self._own[key] = value
+        return value
+
+    def __setitem__(self, key, value):
+        self._own[key] = value
+
+    def __delitem__(self, key):
+        del self._own[key]
+
+    def __contains__(self, key):
+        return key in self._own or (self._source is not None and key in self._source)
+
+    def __iter__(self):
+        yield from self._own
+        if self._source is not None:
+            yield from (k for k in self._source if k not in self._own)
+
+    def __len__(self):
+        return sum(1 for _ in self)
 
 
 @dataclass

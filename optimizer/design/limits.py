@@ -54,6 +54,9 @@ def limit_table(case, d) -> list[Limit]:
     table.append(Limit("ratio_high", f"{word} at most {hi:g}", d.ratio, hi * (1 + RATIO_TOLERANCE)))
     table.append(Limit("flood", f"fraction of flood at most {case.flood_fraction:g}",
                        d.fraction_of_flood, case.flood_fraction * slack))
+    table.append(Limit("operating_range", f"tray operating-range use (weeping at {100 * case.turndown:g} % of the "
+                       "design loads, entrainment, downcomer back-up and residence time) at most 1",
+                       d.range_use, 1.0))
     optional = [
         ("max_height", "height", d.height, case.max_height, "m"),
         ("max_diameter", "diameter", d.diameter, case.max_diameter, "m"),

@@ -46,10 +46,13 @@ def infeasible_reason(space: Space) -> str:
     if len(space) == 0 or not np.any(space.least) or space.spec_met == 0:
         return _unreachable(space)
     reasons = []
-    for floor in space.floors.values():
+    for name, floor in space.floors.items():
         if floor.least > floor.bound:
             reasons.append(f"the least {floor.label.split(' at most')[0]} of any design meeting the spec is "
                            f"{floor.least:.4g} {floor.unit}".rstrip() + f", above the limit ({floor.label})")
+            if name == "operating_range":
+                reasons[-1] += ("; valve trays have a wider turndown ([column] tray = \"valve\", or "
+                                "valve_fallback = true with sieve trays)")
     if not reasons:
         labels = [f.label for f in space.floors.values()]
         reasons.append("no single design meets every limit at once (" + "; ".join(labels) + ")")

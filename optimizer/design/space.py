@@ -5,7 +5,7 @@ each chunk exactly (``SingleColumn.evaluate``) and keeps only what selection
 and ranking need: the decisions, the total annualized cost, whether every
 limit is met, whether the point is the least rate of its group, and the
 columns of any shared resources asked for. Peak memory stays near one
-chunk's full evaluation plus about 30 bytes per alternative.
+chunk's full evaluation plus 35 bytes per alternative.
 
 A ``Space`` re-evaluates any subset of its alternatives in full on demand
 (``designs``); the figures reported are always such re-evaluations.
@@ -24,6 +24,7 @@ import numpy as np
 from towercost.design.case import Case
 from towercost.design.column import CHUNK, SingleColumn
 from towercost.design.designs import Designs
+from towercost.design.internals import TRAY_TYPES
 from towercost.design.limits import limit_table
 
 #: The order of alternatives of equal cost, first key first.
@@ -53,6 +54,7 @@ class Space:
     trays: np.ndarray            # real trays
     rate: np.ndarray             # agent rate [mol/s]
     diameter: np.ndarray         # shell diameter [m]
+    tray: np.ndarray             # tray type (index into towercost.design.internals.TRAY_TYPES)
     cost: np.ndarray             # total annualized cost [USD/yr]
     feasible: np.ndarray         # meets every spec and every limit
     least: np.ndarray            # the least rate of its (agent, trays) group
@@ -86,7 +88,8 @@ class Space:
     def designs(self, index) -> Designs:
         """The alternatives at ``index``, re-evaluated in full (one call), in the order given."""
         index = np.asarray(index, dtype=int)
-        return self.flowsheet.evaluate(self.agent[index], self.trays[index], self.rate[index], self.diameter[index])
+        return self.flowsheet.evaluate(self.agent[index], self.trays[index], self.rate[index], self.diameter[index],
+                                       self.tray[index])
 
     def full(self) -> Designs:
         """Every alternative in full (for small spaces: tests, curves)."""
@@ -98,10 +101,41 @@ class Space:
 
         frame = pd.DataFrame({"agent": np.asarray(self.case.agents, dtype=object)[self.agent], "trays": self.trays,
                               "rate": self.rate, "ratio": self.ratio, "diameter": self.diameter,
-                              "annualized": self.cost, "feasible": self.feasible, "least": self.least})
+                              "tray": np.asarray(TRAY_TYPES, dtype=object)[self.tray], "annualized": self.cost, "feasible": self.feasible, "least": self.least})
         for name, values in self.usage.items():
             frame[name] = values
         return frame
+
+
+class _Columns:
+    """Columns filled in place, chunk by chunk, grown in place (``ndarray.resize``: no second copy).
+
+    Large arrays are reallocated by the C library in place (``mremap``), so
+    growing touches no more memory than the rows written.
+    """
+
+    def __init__(self, dtypes: dict, capacity: int, limit: int):
+        self.capacity = max(1, min(capacity, limit))
+        self.limit = limit
+        self.columns = {name: np.empty(self.capacity, dtype) for name, dtype in dtypes.items()}
+        self.size = 0
+
+    def append(self, values: dict, n: int) -> None:
+        end = self.size + n
+        if end > self.limit:   # not expected: the estimate is an upper bound
+            raise RuntimeError(f"the space outgrew its estimate of {self.limit:,} alternatives")
+        if end > self.capacity:
+            self.capacity = min(self.limit, max(end, int(self.capacity * 1.5)))
+            for column in self.columns.values():
+                column.resize(self.capacity, refcheck=False)
+        for name, column in self.columns.items():
+            column[self.size:end] = values[name]
+        self.size = end
+
+    def finish(self) -> dict[str, np.ndarray]:
+        for column in self.columns.values():
+            column.resize(self.size, refcheck=False)
+        return self.columns
 
 
 def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: int = CHUNK,
@@ -109,42 +143,35 @@ def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: i
     """Evaluate every alternative of the case (or of the candidates ``agents``).
 
     ``keep`` names shared-resource figures (from ``RESOURCES``) to keep a
-    column of; ``progress(done, estimate)`` is called after each chunk.
+    column of; ``progress(done, expected)`` is called after each chunk, with
+    ``expected`` projected from the share of (agent, trays) groups done.
     """
     flowsheet = SingleColumn(case)
     chosen = np.arange(len(case.agents)) if agents is None else np.asarray(agents, dtype=int)
-    estimate = flowsheet.estimate() * chosen.size // max(len(case.agents), 1)
-    # Columns filled in place, chunk by chunk: no list of parts to join, so no second copy at the end.
-    dtypes = {"agent": np.int32, "trays": np.int32, "rate": float, "diameter": float, "cost": float,
-              "feasible": bool, "least": bool, **{name: float for name in keep}}
-    columns = {name: np.empty(estimate, dtype) for name, dtype in dtypes.items()}
+    share = chosen.size / max(len(case.agents), 1)
+    estimate = int(flowsheet.estimate() * share)
+    dtypes = {"agent": np.int32, "trays": np.int32, "rate": float, "diameter": float, "tray": np.int8,
+              "cost": float, "feasible": bool, "least": bool, **{name: float for name in keep}}
+    store = _Columns(dtypes, int(flowsheet.typical() * share), estimate)
     floors: dict[str, LimitFloor] = {}
     spec_met = 0
-    done = 0
     for batch in flowsheet.alternatives(chosen, chunk):
         separated = flowsheet.separate(batch.agent, batch.trays.astype(float), batch.rate)
-        diameter = np.full(batch.rate.shape, np.nan if case.shell_diameter is None else case.shell_diameter)
-        base = flowsheet.price(separated, diameter)
-        pieces = [(base, batch.least)]
-        for wider in flowsheet.wider(base):   # the same separation in a larger shell: only sizing and cost change
-            pieces.append((flowsheet.price(separated, wider), batch.least))
-        for designs, least in pieces:
-            end = done + len(designs)
-            if end > estimate:   # not expected: the estimate is an upper bound
-                raise RuntimeError(f"the space outgrew its estimate of {estimate:,} alternatives")
+        # the same separation in each shell offered: only sizing and cost change
+        for index, designs in flowsheet.shells(separated):
             values = {"agent": designs.agent, "trays": designs.trays, "rate": designs.rate,
-                      "diameter": designs.diameter, "cost": designs.annualized,
-                      "feasible": designs.within_limits, "least": least,
+                      "diameter": designs.diameter, "tray": designs.tray_type, "cost": designs.annualized,
+                      "feasible": designs.within_limits, "least": batch.least[index],
                       **{name: getattr(designs, name) for name in keep}}
-            for name, column in columns.items():
-                column[done:end] = values[name]
+            store.append(values, len(designs))
             spec_met += _gather_floors(case, designs, floors)
-            done = end
         if progress is not None:
-            progress(done, max(estimate, done))
+            done_groups, all_groups = batch.progress
+            expected = store.size * all_groups // max(done_groups, 1)
+            progress(store.size, max(expected, store.size))
     if progress is not None:
-        progress(done, done)
-    columns = {name: column[:done] for name, column in columns.items()}
+        progress(store.size, store.size)
+    columns = store.finish()
     usage = {name: columns.pop(name) for name in keep}
     return Space(case=case, flowsheet=flowsheet, usage=usage, floors=floors, spec_met=spec_met, agents=chosen,
                  **columns)

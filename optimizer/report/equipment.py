@@ -121,7 +121,8 @@ def equipment_list(case, d, i: int = 0, design_id: str | None = None) -> list[di
     eq = d.equipment
     services = _service(case)
     rows = []
-    for j, spec in enumerate(eq.specs):
+    for j in range(len(eq.specs)):
+        spec = eq.spec_at(i, j)   # a row may switch correlation from one design to the next (fan or blower)
         kind = spec.correlation.split("_")[0]
         info = costing.correlation(spec.correlation)
         row = dict.fromkeys(COLUMNS)

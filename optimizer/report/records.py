@@ -13,6 +13,9 @@ import math
 
 import numpy as np
 
+from towercost.design.internals import TRAY_TYPES
+from towercost.models import hydraulics
+
 CAUTION = (
     "Preliminary estimate only (order of magnitude to study grade). Mechanical, "
     "process-safety and pressure-vessel design must be done by qualified engineers; "
@@ -26,7 +29,8 @@ def equipment_rows(case, d, i: int = 0) -> list[dict]:
     """One row per equipment item of design ``i``: tag, kind, size basis, costs, correlation, range held."""
     eq = d.equipment
     rows = []
-    for j, spec in enumerate(eq.specs):
+    for j in range(len(eq.specs)):
+        spec = eq.spec_at(i, j)   # a row may switch correlation from one design to the next (fan or blower)
         rows.append({
             "tag": spec.tag, "item": spec.key, "kind": spec.kind, "material": eq.materials[j],
             "size_basis": spec.size_basis, "size": float(eq.size[i, j]), "size_unit": spec.size_unit,
@@ -126,6 +130,30 @@ def utilities_summary(d, i: int = 0) -> list[dict]:
     return rows
 
 
+def operating_range(case, d, i: int = 0) -> dict:
+    """The tray's operating range at design ``i``: each limit's figure, the limit, and which governs."""
+    return {
+        "turndown": case.turndown,
+        "weep_ratio": float(d.weep_ratio[i]), "weep_ratio_min": 1.0,
+        "entrainment": float(d.entrainment[i]), "entrainment_max": hydraulics.ENTRAINMENT_LIMIT,
+        "downcomer_backup_fraction": float(d.backup_fraction[i]), "downcomer_backup_max": hydraulics.BACKUP_LIMIT,
+        "downcomer_residence_s": float(d.residence_time[i]),
+        "downcomer_residence_min_s": hydraulics.RESIDENCE_TIME_MIN,
+        "use": float(d.range_use[i]),
+        "governs": hydraulics.LIMIT_NAMES[int(d.range_governs[i])],
+        "inside": bool(d.range_use[i] <= 1.0),
+    }
+
+
+def design_basis(case) -> tuple[str, str]:
+    """Where the vessel's design pressure and temperature come from, in words."""
+    pressure = ("given in the scenario" if case.design_pressure is not None
+                else "operating pressure by the margin rule (Seider et al., Eq. 16.61)")
+    temperature = ("given in the scenario" if case.design_temperature is not None
+                   else "operating temperature + 27.8 K (50 F, common practice)")
+    return pressure, temperature
+
+
 def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict:
     """One design as plain data (SI units, names spelled out) for JSON and CSV.
 
@@ -146,10 +174,10 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
             "fraction_removed": 1.0 - out / inlet if inlet > 0 else None,
             "factor": float(d.factor[i, s]),
             "theoretical_stages": float(d.stages[i, s]),
+            "tray_efficiency": float(d.efficiency[i, s]),
             "k_value": float(case.k_value[a, s]),
             "agent_outlet_mole_fraction": float(d.agent_outlet[i, s]),
             "agent_inlet_mole_fraction": float(case.lean[a, s]),
-            "tray_efficiency": float(d.stages[i, s]) / float(d.trays[i]),
         }
     items = equipment_rows(case, d, i)
     uses = use_rows(d, i)
@@ -173,6 +201,7 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
         "controlling": controlling(case, d, i),
         "limits": limit_rows(case, d, i),
         "at_search_bounds": search_bounds(case, d, i),
+        "controlling_solute": case.solutes[int(d.controlling[i])],
         "solutes": solutes,
         "streams": {
             "liquid_mol_s": float(d.liquid_flow[i]), "liquid_kg_s": float(d.liquid_mass_flow[i]),
@@ -191,7 +220,12 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
             "flow_parameter": float(d.flow_parameter[i]),
             "height_m": float(d.height[i]),
             "tray_spacing_m": case.tray_spacing,
-            "tray_type": case.tray,
+            "tray_type": TRAY_TYPES[int(d.tray_type[i])],
+            "tray_type_asked": case.tray,
+            "diameter_flooding_m": float(d.diameter_flooding[i]),
+            "diameter_least_m": float(d.diameter_least[i]),
+            "diameter_governs": "downcomer" if d.diameter_least[i] > d.diameter_flooding[i] else "flooding",
+            "operating_range": operating_range(case, d, i),
             "pressure_drop_per_tray_Pa": float(d.pressure_drop_per_tray[i]),
             "pressure_drop_Pa": float(d.pressure_drop[i]),
             "design_pressure_Pa_gauge": float(d.design_pressure[i]),
@@ -199,8 +233,15 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
             "shell_thickness_m": float(d.wall_thickness[i]),
             "head_thickness_m": float(d.head_thickness[i]),
             "shell_weight_kg": float(d.shell_weight[i]),
+            "heads_weight_kg": float(d.head_weight[i]),
+            "vessel_weight_kg": float(d.vessel_weight[i]),
             "tray_weight_kg": float(d.tray_weight[i]),
             "material": case.material,
+            "design_pressure_basis": design_basis(case)[0],
+            "design_temperature_basis": design_basis(case)[1],
+            "existing_shell": None if case.shell_diameter is None else {
+                "diameter_m": case.shell_diameter, "modification_allowance": case.shell_modification},
+            "drive_enclosure": case.drive_enclosure,
         },
         "utilities": {
             "pump_shaft_power_W": float(d.pump_shaft_power[i]),
@@ -262,6 +303,7 @@ def result_record(result, *, verbose: bool = True) -> dict:
         rec = design_record(case, result.designs, i, ratio_text=texts[i])
         rec["rank"] = i + 1
         rec["above_best"] = (float(result.designs.annualized[i]) - best) / abs(best) if best else 0.0
+        rec["on_search_bounds"] = list(result.ranked_bounds[i]) if result.ranked_bounds else []
         alternatives.append(rec)
     band = result.band
     per_texts = ratio_texts(case, result.per_agent)
@@ -289,6 +331,7 @@ def result_record(result, *, verbose: bool = True) -> dict:
                                 "annualized_cost_USD_per_yr": list(r.cost)} for r in band.by_agent]},
         "per_agent_best": per_agent,
         "no_design": result.unmet,
+        "search_bounds": [{"design": f.design, "bound": f.bound, "message": f.message} for f in result.bounds],
         "warnings": result.warnings,
         "solver": solver,
         "inputs": inputs_record(result.scenario),
@@ -326,6 +369,7 @@ def alternatives_frame(result):
             "installed_USD": float(d.installed[i]), "operating_USD_yr": float(d.operating[i]),
             "credit_USD_yr": float(d.credit[i]), "annualized_USD_yr": float(d.annualized[i]),
             "above_best": (float(d.annualized[i]) - best) / abs(best) if best else 0.0,
+            "on_search_bounds": " ".join(result.ranked_bounds[i]) if result.ranked_bounds else "",
         }
         for s, name in enumerate(case.solutes):
             row[f"stages_{name}"] = float(d.stages[i, s])

@@ -10,9 +10,11 @@ import numpy as np
 from rich.console import Console
 from rich.table import Table
 
+from towercost.design.internals import TRAY_TYPES
 from towercost.design.limits import SPEC_TOLERANCE
+from towercost.models import hydraulics
 from towercost.report import layout, ratios
-from towercost.report.records import CAUTION, KMOL_H
+from towercost.report.records import CAUTION, KMOL_H, design_basis
 from towercost.scenario.units import mole_fraction_text
 
 
@@ -98,6 +100,7 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
     if note:
         console.print(note, markup=False, highlight=False)
 
+    control = int(d.controlling[i])
     _title(console, "Separation")
     columns = [layout.Column("solute", left=True, wrap=True), layout.Column("K"), layout.Column(fw),
                layout.Column("stages", "theor."), layout.Column("tray eff.", keep=4), layout.Column("inlet"),
@@ -106,34 +109,54 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
     for s, name in enumerate(case.solutes):
         inlet, out, target = case.feed_in[s], d.outlet[i, s], case.target[s]
         mark = "" if out <= target * (1 + SPEC_TOLERANCE) else " (misses)"
-        rows.append(layout.Row([name, f"{case.k_value[a, s]:.4g}", f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}",
-                                f"{d.stages[i, s] / d.trays[i]:.3f}", mole_fraction_text(inlet),
-                                mole_fraction_text(out) + mark, mole_fraction_text(target),
-                                f"{100 * (1 - out / inlet):.3f}"]))
+        rows.append(layout.Row([name + (" (controls)" if s == control else ""), f"{case.k_value[a, s]:.4g}",
+                                f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}", f"{d.efficiency[i, s]:.3f}",
+                                mole_fraction_text(inlet), mole_fraction_text(out) + mark,
+                                mole_fraction_text(target), f"{100 * (1 - out / inlet):.3f}"]))
     _lines(console, columns, rows)
+    console.print(f"tray efficiency = theoretical stages / {int(d.trays[i])} real trays; {case.solutes[control]} "
+                  f"controls (its outlet is {100 * d.outlet[i, control] / case.target[control]:.1f} % of its spec)",
+                  markup=False, highlight=False)
 
     _title(console, "Column (estimating figures, not a mechanical design)")
+    tray = TRAY_TYPES[int(d.tray_type[i])]
+    tray_note = "" if tray == case.tray else f" (in place of {case.tray} trays, outside their operating range here)"
+    flooding, least = d.diameter_flooding[i], d.diameter_least[i]
+    governs = "the downcomers govern" if least > flooding else "flooding governs"
+    inside = "inside" if d.range_use[i] <= 1.0 else "OUTSIDE"
     pairs = [
-        ("tray type, spacing", f"{case.tray}, {case.tray_spacing:.3f} m"),
+        ("tray type, spacing", f"{tray}, {case.tray_spacing:.3f} m{tray_note}"),
         ("flow parameter", f"{d.flow_parameter[i]:.3g}"),
         ("diameter required at design flood", f"{d.diameter_required[i]:.3f} m"),
+        ("least shell: flooding / downcomers", f"{flooding:.3f} m / {least:.3f} m ({governs})"),
         ("diameter (standard size)", f"{d.diameter[i]:.3f} m"),
         ("fraction of flood", f"{d.fraction_of_flood[i]:.3f}"),
+        (f"weep margin at {100 * case.turndown:g} % of design loads", f"{d.weep_ratio[i]:.2f} (at least 1)"),
+        ("fractional entrainment", f"{d.entrainment[i]:.3f} (at most {hydraulics.ENTRAINMENT_LIMIT:g})"),
+        ("downcomer back-up / residence time", f"{d.backup_fraction[i]:.2f} of spacing + weir (at most "
+                                               f"{hydraulics.BACKUP_LIMIT:g}) / {d.residence_time[i]:.1f} s (at least "
+                                               f"{hydraulics.RESIDENCE_TIME_MIN:g} s)"),
+        ("operating range", f"{inside}; {hydraulics.LIMIT_NAMES[int(d.range_governs[i])]} is nearest its limit "
+                            f"({100 * d.range_use[i]:.0f} %)"),
         ("height, tangent to tangent", f"{d.height[i]:.2f} m"),
         ("pressure drop per tray / total", f"{d.pressure_drop_per_tray[i]:.0f} Pa / {d.pressure_drop[i] / 1000:.2f} kPa"),
-        ("design pressure / temperature", f"{d.design_pressure[i] / 1e5:.2f} barg / {d.design_temperature[i] - 273.15:.0f} degC"),
+        ("design pressure", f"{d.design_pressure[i] / 1e5:.2f} barg, {design_basis(case)[0]}"),
+        ("design temperature", f"{d.design_temperature[i] - 273.15:.0f} degC, {design_basis(case)[1]}"),
         ("shell / head thickness", f"{d.wall_thickness[i] * 1000:.1f} mm / {d.head_thickness[i] * 1000:.1f} mm ({case.material})"),
-        ("shell / trays weight", f"{d.shell_weight[i] / 1000:.2f} t / {d.tray_weight[i] / 1000:.2f} t"),
+        ("shell / heads / trays weight", f"{d.shell_weight[i] / 1000:.2f} t / {d.head_weight[i] / 1000:.2f} t / "
+                                         f"{d.tray_weight[i] / 1000:.2f} t"),
         ("pump / blower shaft power", f"{d.pump_shaft_power[i] / 1000:.2f} kW / {d.blower_shaft_power[i] / 1000:.2f} kW"),
     ]
-    _lines(console, [layout.Column("item", left=True, wrap=True), layout.Column("value")],
+    _lines(console, [layout.Column("item", left=True), layout.Column("value", left=True, wrap=True)],
            [layout.Row(list(p)) for p in pairs])
 
     eco = case.economics
     index_note = f"cost index {eco.index_to:g}" + (f" ({eco.index_year})" if eco.index_year else "")
     _title(console, f"Capital, USD at {index_note}")
-    rows = [layout.Row([f"{spec.tag} {spec.kind}", _money(d.purchased[i, j]), _money(d.bare_module_items[i, j])])
-            for j, spec in enumerate(d.equipment.specs)]
+    rows = []
+    for j in range(len(d.equipment.specs)):
+        spec = d.equipment.spec_at(i, j)
+        rows.append(layout.Row([f"{spec.tag} {spec.kind}", _money(d.purchased[i, j]), _money(d.bare_module_items[i, j])]))
     rows.append(layout.Row(["total module (with contingency and fee)", "", _money(d.total_module[i])]))
     rows.append(layout.Row(["installed (grassroots, with auxiliary facilities)", "", _money(d.installed[i])],
                            strong=True))
@@ -161,6 +184,12 @@ def print_warnings(console: Console, warnings: list[str]) -> None:
     console.print(CAUTION, style="dim", markup=False, highlight=False)
 
 
+def _trays_text(case, designs, i: int) -> str:
+    """Real trays, with the tray type where it is not the one the scenario asked for."""
+    tray = TRAY_TYPES[int(designs.tray_type[i])]
+    return f"{int(designs.trays[i])}" + ("" if tray == case.tray else f" {tray}")
+
+
 def _ranking_rows(case, designs, best: float, key: int, ranks: list[int]) -> list[layout.Row]:
     from towercost.report.ids import ids_of
 
@@ -170,7 +199,7 @@ def _ranking_rows(case, designs, best: float, key: int, ranks: list[int]) -> lis
     for i in range(len(designs)):
         above = (designs.annualized[i] - best) / abs(best) if best else 0.0
         rows.append(layout.Row([
-            str(ranks[i]), case.agents[int(designs.agent[i])], str(int(designs.trays[i])), texts[i],
+            str(ranks[i]), case.agents[int(designs.agent[i])], _trays_text(case, designs, i), texts[i],
             f"{designs.stages[i, key]:.2f}", f"{designs.factor[i, key]:.3f}", f"{designs.diameter[i]:.3f}",
             f"{designs.height[i]:.1f}", f"{designs.installed[i] / 1e3:,.0f}",
             f"{designs.capital_charge[i] / 1e3:,.1f}", f"{(designs.operating[i] - designs.credit[i]) / 1e3:,.1f}",
@@ -196,7 +225,7 @@ def print_ranking(console: Console, result, *, verbose: bool = False) -> None:
     case, d = result.case, result.designs
     rw, fw = _ratio_word(case), _factor_word(case)
     best = float(d.annualized[0])
-    solute = controlling(case, d, 0)["binding_spec"] or case.solutes[0]
+    solute = case.solutes[int(d.controlling[0])]   # the solute the best design's spec holds
     key = case.solutes.index(solute)
     console.print(f"{case.name}: the {len(d)} best of {result.space_size:,} alternatives "
                   f"({LISTINGS[result.distinct]})", style="bold", markup=False, highlight=False)
@@ -227,6 +256,8 @@ def print_ranking(console: Console, result, *, verbose: bool = False) -> None:
         (rw, rw, f"{case.service.agent_word} rate over the least rate with unlimited stages, rounded up to the "
                  "digits that give the same design when typed back"),
         ("N", "N", f"theoretical stages for {solute}, the solute whose spec binds"),
+        ("trays", "trays", f"real trays ({case.tray} unless the tray type is named: the other type is priced where "
+                           f"{case.tray} trays fall outside their operating range)"),
         (fw, fw, f"{case.service.factor_name} for {solute}"),
         ("installed", "installed", f"grassroots capital with auxiliary facilities, at {index_note}"),
         ("capital charge", "capital charge", f"capital recovery factor {eco.capital_recovery:.4f}/yr x installed"),
@@ -245,7 +276,12 @@ def print_ranking(console: Console, result, *, verbose: bool = False) -> None:
                           f"re-evaluation: {s['difference']:.2e} USD/yr", style="dim", markup=False, highlight=False)
         console.print(f"Space evaluated in {s['evaluate_seconds'] * 1000:.0f} ms; total {s['total_seconds']:.2f} s",
                       style="dim", markup=False, highlight=False)
-    print_warnings(console, result.warnings)
+    flagged = [f.message for f in getattr(result, "bounds", [])]
+    if flagged:
+        _title(console, "On a bound of the search")
+        for message in flagged:
+            console.print(f"  - {message}", markup=False, highlight=False)
+    print_warnings(console, [w for w in result.warnings if w not in flagged])
 
 
 def print_equipment(console: Console, rows: list[dict], utilities: list[dict], title: str) -> None:
@@ -284,7 +320,7 @@ def print_curve(console: Console, curve) -> None:
         t.add_row(f"{d.ratio[i]:.3f}", str(int(d.trays[i])), f"{d.diameter[i]:.3f}", _money(d.installed[i]),
                   _money(d.annualized[i]))
     console.print(t)
-    console.print(f"[dim]{CAUTION}[/dim]")
+    print_warnings(console, getattr(curve, "warnings", []))
 
 
 def print_cascade(console: Console, record: dict, absorb: bool) -> None:

@@ -217,10 +217,12 @@ class Murphree(_Table):
 
 
 class Shell(_Table):
-    """An existing shell to reuse."""
+    """An existing shell to reuse: no new shell is bought; the new internals are priced."""
 
     diameter: Length  # [m] inside diameter
     max_trays: Annotated[int, Field(ge=1)]
+    # fraction of a new shell's bare-module cost allowed for modifications (nozzles, tray rings, inspection)
+    modification_allowance: Annotated[float, Field(ge=0, le=2)] = 0.0
 
 
 class Column(_Table):
@@ -243,7 +245,13 @@ class Column(_Table):
     max_diameter: Length = math.inf  # [m]
     existing_shell: Shell | None = None
     supply_pressure: Pressure = defaults.SUPPLY_PRESSURE  # [Pa] the liquid is pumped from
-    larger_diameters: Annotated[int, Field(ge=0, le=10)] = 2  # standard sizes above the least also tried
+    # standard sizes above the least also tried; unset: every size upward until the cost has risen twice in a row
+    larger_diameters: Annotated[int, Field(ge=0, le=60)] | None = None
+    design_pressure: Pressure | None = None  # [Pa] absolute, or gauge text "20 barg"; unset: the margin rule
+    design_temperature: Temperature | None = None  # [K]; unset: operating temperature plus the margin
+    drive_enclosure: Literal["totally_enclosed", "explosion_proof", "open_drip_proof"] = "totally_enclosed"
+    turndown: Annotated[float, Field(gt=0, le=1)] = defaults.TURNDOWN  # lowest loads / design loads; common practice
+    valve_fallback: bool = True  # offer valve trays where sieve trays fall outside their operating range
     max_dilute: Annotated[float, Field(gt=0, lt=1)] = defaults.MAX_DILUTE  # solute mole fraction; common practice
     max_flow_change: Annotated[float, Field(gt=0, lt=1)] = defaults.MAX_FLOW_CHANGE  # fractional; common practice
 

@@ -17,7 +17,9 @@ import numpy as np
 
 from towercost.design import cascade
 from towercost.design.case import Case, agent_index, prepare
-from towercost.design.column import SAME_RATE, SingleColumn
+from towercost.design.column import MAX_WIDER, SAME_RATE, SingleColumn
+from towercost.design.limits import RATIO_TOLERANCE, SPEC_TOLERANCE
+from towercost.models import hydraulics
 from towercost.design.designs import Designs
 from towercost.design.cascade import dilute_checks
 from towercost.design.reasons import infeasible_reason
@@ -69,6 +71,15 @@ class Band:
 
 
 @dataclass
+class BoundFlag:
+    """A best design that lies on a bound of the search, with the words to widen it."""
+
+    design: str        # "the best design", or "the best design of 'candidate'"
+    bound: str         # trays_high, trays_low, ratio_high, ratio_low or diameter
+    message: str
+
+
+@dataclass
 class Result:
     """What ``optimize`` hands to the report: exact figures only."""
 
@@ -84,6 +95,8 @@ class Result:
     distinct: str = "trays"          # how the ranking lists designs (``DISTINCT``)
     per_agent_rank: list[int] = field(default_factory=list)   # rank of each per-candidate best in the listing
     scenario: Scenario | None = field(default=None, repr=False)   # the inputs as read (SI)
+    bounds: list[BoundFlag] = field(default_factory=list)   # best designs on a bound of the search
+    ranked_bounds: list[list[str]] = field(default_factory=list)   # per ranked design, the bounds it lies on
 
     @property
     def best(self) -> Designs:
@@ -94,6 +107,73 @@ class Result:
         frame = self.designs.to_frame(self.case)
         frame.insert(0, "rank", np.arange(1, len(self.designs) + 1))
         return frame
+
+
+def search_bounds(space: Space, i: int) -> list[tuple[str, str]]:
+    """The bounds of the search alternative ``i`` lies on: (bound, how to widen it), in the user's words.
+
+    * trays at either end of ``[column] trays`` (the low end only above 1 tray);
+    * the ratio at the floor of ``[column] ratio`` (the least rate was raised to it: with these
+      trays less agent still meets the spec), or at its ceiling, or at the least rate of its
+      trays where one tray fewer cannot meet the spec within the ceiling;
+    * the shell the widest tried for its rate, where the sizes were cut by ``larger_diameters``,
+      ``max_diameter`` or the search's cap rather than by a rise in cost or the trays weeping.
+    """
+    case = space.case
+    word = case.service.ratio_word
+    (t_lo, t_hi), (r_lo, r_hi) = case.trays_range, case.ratio_range
+    trays, ratio, agent = int(space.trays[i]), float(space.ratio[i]), int(space.agent[i])
+    out = []
+    if trays == t_hi:
+        out.append(("trays_high", f"uses {trays} trays, the most searched ([column] trays = [{t_lo}, {t_hi}]): "
+                                  "raise the upper end to see whether more trays pay"))
+    if trays == t_lo and t_lo > 1:
+        out.append(("trays_low", f"uses {trays} trays, the fewest searched ([column] trays = [{t_lo}, {t_hi}]): "
+                                 "lower the first value to see whether fewer trays pay"))
+    if ratio <= r_lo * (1 + 1e-9):
+        out.append(("ratio_low", f"runs at {word} {ratio:.4g}, the floor of the searched range ([column] ratio = "
+                                 f"[{r_lo:g}, {r_hi:g}]), where these trays would meet the spec with less: lower "
+                                 "the first value (it must stay above 1)"))
+    ceiling = ratio >= r_hi * (1 - 1e-9)
+    if not ceiling and space.least[i] and trays > t_lo:
+        fewer = float(cascade.least_rate(case, np.array([agent]), np.array([trays - 1]))[0])
+        ceiling = not fewer <= r_hi * float(space.flowsheet.rate_min[agent]) * (1 + RATIO_TOLERANCE)
+    if ceiling:
+        out.append(("ratio_high", f"runs at {word} {ratio:.4g}, at the ceiling of the searched range ([column] ratio"
+                                  f" = [{r_lo:g}, {r_hi:g}]) for its trays: fewer trays would need more than "
+                                  f"{r_hi:g} x the minimum; raise the upper value to see whether they pay"))
+    if case.shell_diameter is None:
+        same = (space.agent == agent) & (space.trays == trays) & (space.rate == space.rate[i])
+        tried = space.diameter[same]
+        if space.diameter[i] >= tried.max():
+            wider = float(hydraulics.standard_diameter(space.diameter[i] + hydraulics.STANDARD_DIAMETER_STEP))
+            if case.larger_diameters is not None:
+                why = (f"[column] larger_diameters = {case.larger_diameters} stops the sizes there: raise it, or leave "
+                       "it out to search until the cost rises")
+            elif wider > case.max_diameter * (1 + SPEC_TOLERANCE):
+                why = (f"the next size ({wider:.3f} m) is above [column] max_diameter = {case.max_diameter:.4g} m: "
+                       "raise it to try wider shells")
+            elif tried.size >= 1 + MAX_WIDER:
+                why = f"the diameter search stops {MAX_WIDER} sizes above the least shell"
+            else:
+                why = ""
+            if why:
+                out.append(("diameter", f"runs in a {space.diameter[i]:.3f} m shell, the widest tried for its rate; "
+                                        + why))
+    return out
+
+
+def bound_flags(space: Space, order: list[int], best_of: dict[int, int]) -> tuple[list[BoundFlag], list[list[str]]]:
+    """Flags for the best design and each candidate's best, and the bounds of every ranked design."""
+    flags, seen = [], set()
+    picks = [("the best design", order[0])] + [(f"the best design of {space.case.agents[a]!r}", i)
+                                               for a, i in sorted(best_of.items())]
+    for label, i in picks:
+        if i in seen:
+            continue
+        seen.add(i)
+        flags += [BoundFlag(label, bound, f"{label} {words}") for bound, words in search_bounds(space, i)]
+    return flags, [[bound for bound, _ in search_bounds(space, i)] for i in order]
 
 
 def near_optimal_band(space: Space, best_cost: float, margin: float) -> Band:
@@ -210,13 +290,16 @@ def optimize(scenario: Scenario, *, top: int = 10, method: str = "model", distin
     for a, name in enumerate(case.agents):
         if a not in best_of:
             unmet[name] = infeasible_reason(build_space(case, agents=[a]))
-    warnings = list(dict.fromkeys(ranked.warnings + dilute_checks(case, ranked.take(np.array([0])))))
+    flags, ranked_bounds = bound_flags(space, order, best_of)
+    reported = space.designs(np.unique(np.array(order + [best_of[a] for a in agents_with])))   # one set of messages
+    warnings = list(dict.fromkeys([f.message for f in flags] + reported.warnings
+                                  + dilute_checks(case, ranked.take(np.array([0])))))
     ranks = [rank_in_listing(space, best_of[a], groups) for a in agents_with]
     solver["total_seconds"] = time.perf_counter() - t0
     return Result(case=case, method=method, designs=ranked, per_agent=per_agent,
                   band=near_optimal_band(space, float(exact[0]), case.margin), unmet=unmet,
                   warnings=warnings, solver=solver, space_size=len(space), distinct=distinct,
-                  per_agent_rank=ranks, scenario=scenario)
+                  per_agent_rank=ranks, scenario=scenario, bounds=flags, ranked_bounds=ranked_bounds)
 
 
 def evaluate_design(scenario: Scenario, agent: str, trays: int, *, ratio: float | None = None,
@@ -249,6 +332,7 @@ class Curve:
     agent: str
     by_trays: Designs = field(repr=False)     # for each tray count, its best design
     by_ratio: Designs = field(repr=False)     # for each ratio level, the best design at that rate
+    warnings: list[str] = field(default_factory=list)   # range messages of the designs shown
 
 
 def _cheapest_per(labels: np.ndarray, order: np.ndarray) -> np.ndarray:
@@ -273,4 +357,6 @@ def cost_curve(scenario: Scenario, agent: str) -> Curve:
     on_grid = ~space.least & np.isclose(ratio, levels[level], rtol=SAME_RATE)
     by_trays = _cheapest_per(space.trays, order)
     by_ratio = _cheapest_per(level, order[on_grid[order]])
-    return Curve(case=case, agent=agent, by_trays=space.designs(by_trays), by_ratio=space.designs(by_ratio))
+    shown = space.designs(np.unique(np.concatenate([by_trays, by_ratio])))   # one set of messages for both tables
+    return Curve(case=case, agent=agent, by_trays=space.designs(by_trays), by_ratio=space.designs(by_ratio),
+                 warnings=shown.warnings)

@@ -166,9 +166,8 @@ def cheapest_margin(scenario: Scenario, case: Case, draws: Draws, confidence: fl
                       f"no candidate and tray count meets every spec in {confidence:.0%} of the samples within "
                       f"{case.service.ratio_word} {hi:g}")
     agent, trays, rate = groups[0][inside], groups[1][inside], rate[inside]
-    base = flowsheet.evaluate(agent, trays, rate)
-    shells = [base] + [flowsheet.evaluate(agent, trays, rate, wider) for wider in flowsheet.wider(base)]
-    options = Designs.concatenate(shells)
+    separated = flowsheet.separate(agent, trays.astype(float), rate)
+    options = Designs.concatenate([designs for _, designs in flowsheet.shells(separated)])
     allowed = np.flatnonzero(plant_limits_met(case, options))
     if allowed.size == 0:
         return Margin("cheapest", confidence, None, None, None, None,

@@ -120,9 +120,9 @@ def _block(scenario: Scenario, case: Case, draws: Draws, rows: np.ndarray, chunk
     seen = 0
     for batch in flowsheet.alternatives(chunk=chunk):
         separated = flowsheet.separate(batch.agent, batch.trays.astype(float), batch.rate)
-        shell = np.full(batch.rate.shape, np.nan if case.shell_diameter is None else case.shell_diameter)
-        base = flowsheet.price(separated, shell)
-        for designs in [base] + [flowsheet.price(separated, wider) for wider in flowsheet.wider(base)]:
+        # Each size's designs are re-priced in place under their own sample's economics before the
+        # diameter search reads their cost, so every replica searches its shells as its sample's own case would.
+        for _, designs in flowsheet.shells(separated):
             price_samples(designs, case, sample_factors(draws, agents[designs.agent], sample_rows[designs.agent]))
             ok = limits_met(limit_table(replica, designs), len(designs))
             ok &= designs.annualized <= best["cost"][designs.agent // n_agents]   # can rank first (ties kept)
