@@ -18,8 +18,8 @@ from towercost.errors import ScenarioError
 from towercost.models import costing, economics, efficiency, equilibrium
 from towercost.models.properties import ideal_gas_density
 from towercost.design.service import Service, service_for
+from towercost.scenario.concentration import Display
 from towercost.scenario.schema import Scenario
-from towercost.scenario.units import mole_fraction_text
 
 
 @dataclass(frozen=True)
@@ -105,6 +105,7 @@ class Case:
     economics: Economics
     margin: float                   # near-optimal band
     notes: tuple[str, ...] = ()     # warnings raised while preparing the case
+    concentrations: Display | None = None   # the unit each phase's concentrations are shown in
 
     @property
     def mode(self) -> str:
@@ -193,7 +194,7 @@ def _efficiencies(scenario: Scenario, k_value, liquid_m, liquid_mu, liquid_rho, 
 
 def prepare(scenario: Scenario) -> Case:
     """Reduce a validated scenario to the plain arrays the evaluation needs."""
-    notes: list[str] = []
+    notes: list[str] = list(scenario.warnings)   # values outside their usual range
     feed, col, eco = scenario.feed, scenario.column, scenario.economics
     service = service_for(scenario.case.mode)
     agents, solutes = scenario.agents, scenario.solutes
@@ -219,8 +220,9 @@ def prepare(scenario: Scenario) -> Case:
     target = _targets(scenario)
     feed_in = np.array([feed.composition[s] for s in solutes])
     if np.all(target >= feed_in):
-        shown = ", ".join(f"{s} {mole_fraction_text(x)} in, {mole_fraction_text(t)} allowed"
-                          for s, x, t in zip(solutes, feed_in, target) if np.isfinite(t))
+        show = scenario.concentrations().treated_text
+        shown = ", ".join(f"{s} {show(i, x)} in, {show(i, t)} allowed"
+                          for i, (s, x, t) in enumerate(zip(solutes, feed_in, target)) if np.isfinite(t))
         raise ScenarioError(f"[[spec]]: the feed already meets every spec ({shown}); no column is needed")
     shell = col.existing_shell
     return Case(
@@ -243,6 +245,7 @@ def prepare(scenario: Scenario) -> Case:
         capital_budget=eco.capital_budget, max_power=eco.max_power, max_steam=eco.max_steam,
         max_dilute=col.max_dilute, max_flow_change=col.max_flow_change,
         economics=_economics(scenario), margin=eco.margin, notes=tuple(notes),
+        concentrations=scenario.concentrations(),
     )
 
 

@@ -1,56 +1,162 @@
-"""Why no alternative qualifies: one line in the user's terms, with the best reachable figures."""
+"""Why a run cannot give a design, in one line of the user's terms.
+
+``infeasible_reason``: why no alternative qualifies, for each candidate, with
+the best figure it reaches and only the changes that can help (when the
+entering agent alone holds a solute above its spec, more trays or more agent
+cannot help: the lean loading or the candidate must change).
+
+``check_size``: before any evaluation, whether the design space fits in
+memory, from the flowsheet's upper bound on its alternatives; if not, the
+estimate and the values to change.
+"""
 
 from __future__ import annotations
+
+import os
 
 import numpy as np
 
 from towercost.design import cascade
+from towercost.design.case import Case
 from towercost.design.limits import SPEC_TOLERANCE
-from towercost.design.space import Space
+from towercost.design.space import Space, build_space
+from towercost.errors import TooLarge
 from towercost.scenario.units import mole_fraction_text
 
+#: Longest reason line [characters]; candidates beyond it are counted, not listed.
+MAX_LINE = 900
 
-def _unreachable(space: Space) -> str:
-    """No alternative meets the spec at all: per candidate, what it reaches at the most trays and rate."""
+
+def _show(case: Case, s: int, x: float) -> str:
+    shown = case.concentrations
+    return shown.treated_text(s, float(x)) if shown is not None else mole_fraction_text(float(x))
+
+
+def _lean_limited(case: Case, a: int) -> str:
+    """Why agent ``a`` has no finite least rate: what its entering loading alone holds (one clause)."""
+    eq = case.service.equilibrium_inlet(case.k_value[a], case.lean[a])
+    held = [f"{case.solutes[s]} at {_show(case, s, eq[s])} (spec {_show(case, s, case.target[s])})"
+            for s in range(len(case.solutes)) if np.isfinite(case.target[s]) and eq[s] >= case.target[s]]
+    agent = "lean loading" if case.service.agent_is_liquid else "loading of the entering gas"
+    change = "a leaner regenerated solvent" if case.service.agent_is_liquid else "a cleaner stripping gas"
+    return (f"{case.agents[a]!r}: its {agent} alone holds {', '.join(held)}; more trays or more "
+            f"{'solvent' if case.service.agent_is_liquid else 'gas'} cannot help: the lean loading must fall "
+            f"({change}) or the candidate must change")
+
+
+def _unreachable(space: Space, a: int) -> str:
+    """Agent ``a`` meets the spec nowhere: what it reaches at the most trays and rate, and what would help."""
     case = space.case
     word = case.service.ratio_word
     n_max, (_, hi) = case.trays_range[1], case.ratio_range
-    if case.shell_max_trays is not None:
-        n_max = min(n_max, case.shell_max_trays)
+    shell = case.shell_max_trays is not None and case.shell_max_trays < n_max
+    if shell:
+        n_max = case.shell_max_trays
+    rate = hi * cascade.minimum_rate(case, np.array([a]))
+    if not np.isfinite(rate[0]):
+        return _lean_limited(case, a)
+    out = cascade.outlet(case, np.array([a]), np.array([n_max]), rate)[0][0]
+    misses = [f"{case.solutes[s]} {_show(case, s, out[s])} (spec {_show(case, s, case.target[s])})"
+              for s in range(len(case.solutes)) if out[s] > case.target[s] * (1 + SPEC_TOLERANCE)]
+    reached = ", ".join(misses) if misses else "the spec only with a rate outside the ratio range"
+    more = (f"the existing shell holds at most {n_max} trays: a higher {word} (raise [column] ratio) or "
+            "another shell would help" if shell else
+            f"more trays (raise the top of [column] trays) or a higher {word} (raise the top of [column] ratio) "
+            "would help")
+    return f"{case.agents[a]!r} reaches {reached} even at {n_max} trays and {hi:g} x {word.split('/')[1]}; {more}"
+
+
+def _within_limits(space: Space, a: int) -> str:
+    """Agent ``a`` meets the spec but no such design meets every limit: the least figure of each limit broken."""
+    case = space.case
     parts = []
-    agents = np.asarray(space.agents, dtype=int)
-    rate = hi * cascade.minimum_rate(case, agents)
-    # An agent whose lean loading already exceeds a spec has no finite minimum rate; its
-    # outlet is not needed (the message names the lean loading), so evaluate it at any rate.
-    out = cascade.outlet(case, agents, np.full(agents.shape, n_max), np.where(np.isfinite(rate), rate, 1.0))[0]
-    for row, a in enumerate(agents):
-        name = case.agents[a]
-        if not np.isfinite(rate[row]):
-            eq = case.service.equilibrium_inlet(case.k_value[a], case.lean[a])
-            lean = [case.solutes[s] for s in range(len(case.solutes))
-                    if np.isfinite(case.target[s]) and eq[s] >= case.target[s]]
-            parts.append(f"{name!r}: its lean loading alone holds {', '.join(lean)} above the spec")
-            continue
-        misses = [
-            f"{case.solutes[s]} {mole_fraction_text(out[row, s])} (spec {mole_fraction_text(case.target[s])})"
-            for s in range(len(case.solutes)) if out[row, s] > case.target[s] * (1 + SPEC_TOLERANCE)
-        ]
-        reached = ", ".join(misses) if misses else "the spec only with a rate outside the ratio range"
-        parts.append(f"{name!r} reaches {reached} even at {n_max} trays and {hi:g} x {word.split('/')[1]}")
-    return ("no design meets the spec: " + "; ".join(parts)
-            + "; allow more trays, a wider ratio range, a leaner solvent or another candidate")
+    for name, floor in space.floors.items():
+        if floor.least > floor.bound:
+            what = floor.label.split(" at most")[0]
+            if name in ("flood", "shell_trays"):
+                help_ = "the existing shell is too small for this duty" if case.shell_diameter else "check the limit"
+            else:
+                help_ = f"raise the limit ({name} in the scenario) or change the candidate"
+            parts.append(f"the least {what} of any design meeting the spec is {floor.least:.4g} {floor.unit}".rstrip()
+                         + f", above the limit ({floor.label}); {help_}")
+    if not parts:
+        labels = [f.label for f in space.floors.values()]
+        parts.append("no single design meets every limit at once (" + "; ".join(labels) + "); relax one of them")
+    return f"{case.agents[a]!r}: " + "; ".join(parts)
+
+
+def _joined(parts: list[str]) -> str:
+    out, length = [], 0
+    for i, part in enumerate(parts):
+        if out and length + len(part) > MAX_LINE:
+            out.append(f"and {len(parts) - i} more candidates")
+            break
+        out.append(part)
+        length += len(part) + 2
+    return "; ".join(out)
 
 
 def infeasible_reason(space: Space) -> str:
-    """Why no alternative of ``space`` qualifies, with the best reachable figures, in one line."""
-    if len(space) == 0 or not np.any(space.least) or space.spec_met == 0:
-        return _unreachable(space)
-    reasons = []
-    for floor in space.floors.values():
-        if floor.least > floor.bound:
-            reasons.append(f"the least {floor.label.split(' at most')[0]} of any design meeting the spec is "
-                           f"{floor.least:.4g} {floor.unit}".rstrip() + f", above the limit ({floor.label})")
-    if not reasons:
-        labels = [f.label for f in space.floors.values()]
-        reasons.append("no single design meets every limit at once (" + "; ".join(labels) + ")")
-    return "no design meets the spec within the limits: " + "; ".join(reasons)
+    """Why no alternative of ``space`` qualifies, for each of its candidates, in one line."""
+    case = space.case
+    agents = [int(a) for a in space.agents] if len(space.agents) else list(range(len(case.agents)))
+    parts, any_spec = [], False
+    for a in agents:
+        own = space if len(agents) == 1 else build_space(case, agents=[a])
+        if len(own) == 0 or own.spec_met == 0:
+            parts.append(_unreachable(own, a))
+        else:
+            any_spec = True
+            parts.append(_within_limits(own, a))
+    head = "no design meets the spec within the limits" if any_spec else "no design meets the spec"
+    return f"{head}: {_joined(parts)}"
+
+
+# --------------------------------------------------------------------------- size
+
+#: Memory an evaluated space takes per alternative [bytes]: the kept columns (about 34 bytes) and
+#: the working arrays of its chunked evaluation, measured by ``benchmarks/bench_scaling.py``
+#: (README: 606 MiB at 9.7 M alternatives, 155 MiB at 0.94 M, i.e. about 51 bytes each), with a margin.
+BYTES_PER_ALTERNATIVE = 64
+
+#: Memory a run takes before its space [bytes]: the interpreter, numpy, pandas, Pyomo and one chunk.
+BASE_BYTES = 400 * 2**20
+
+
+def available_memory() -> int:
+    """Memory this process can still take [bytes]: MemAvailable on Linux, else physical memory free."""
+    try:
+        with open("/proc/meminfo", encoding="ascii") as handle:
+            for line in handle:
+                if line.startswith("MemAvailable:"):
+                    return int(line.split()[1]) * 1024
+    except (OSError, ValueError, IndexError):
+        pass
+    try:
+        return os.sysconf("SC_AVPHYS_PAGES") * os.sysconf("SC_PAGE_SIZE")
+    except (ValueError, OSError, AttributeError):
+        return 4 * 2**30
+
+
+def check_size(case: Case, agents=None, *, memory: int | None = None) -> int:
+    """The upper bound on the alternatives of ``case`` (or of the candidates ``agents``); TooLarge if it would not fit.
+
+    The bound is the flowsheet's own (``SingleColumn.estimate``); nothing is
+    evaluated. ``memory`` [bytes] overrides the memory free.
+    """
+    from towercost.design.column import SingleColumn
+
+    flowsheet = SingleColumn(case)
+    total = flowsheet.estimate()
+    n_agents = max(len(case.agents), 1)
+    estimate = total if agents is None else total * len(agents) // n_agents
+    need = BASE_BYTES + estimate * BYTES_PER_ALTERNATIVE
+    free = available_memory() if memory is None else memory
+    if need > 0.8 * free:
+        lo, hi = case.trays_range
+        raise TooLarge(
+            f"the design space would hold up to {estimate:,} alternatives (about {need / 2**30:.1f} GiB), more "
+            f"than the {free / 2**30:.1f} GiB of memory free; narrow [column] trays (now {lo} to {hi}), lower "
+            f"[column] ratio_levels (now {case.ratio_levels}) or larger_diameters (now {case.larger_diameters}), "
+            f"or list fewer candidates (now {n_agents})")
+    return estimate

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import numpy as np
 from rich.console import Console
+from rich.markup import escape
 from rich.table import Table
 
 from towercost.design.limits import SPEC_TOLERANCE
@@ -24,7 +25,18 @@ def _factor_word(case) -> str:
 
 
 def _money(value: float) -> str:
-    return f"{value:,.0f}"
+    return f"{value:,.0f}" if np.isfinite(value) else "-"
+
+
+def _text(value) -> str:
+    """Text from the scenario (names, warnings) as it is, never read as terminal markup."""
+    return escape(str(value))
+
+
+def concentration_text(case, s: int, x: float) -> str:
+    """Solute ``s`` of the treated stream in its phase's unit (gas ppmv; liquid as the scenario wrote it)."""
+    shown = getattr(case, "concentrations", None)
+    return shown.treated_text(s, float(x)) if shown is not None else mole_fraction_text(float(x))
 
 
 # --------------------------------------------------------------------------- terminal
@@ -51,8 +63,8 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
     status = "meets the spec" if d.meets_spec[i] else "DOES NOT MEET THE SPEC"
     if not d.within_limits[i]:
         status += "; outside a scenario limit"
-    console.print(f"[bold]{title}[/bold]")
-    console.print(f"{case.agents[a]}: {int(d.trays[i])} real trays, {rw} {d.ratio[i]:.3f}, "
+    console.print(f"[bold]{_text(title)}[/bold]")
+    console.print(f"{_text(case.agents[a])}: {int(d.trays[i])} real trays, {rw} {d.ratio[i]:.3f}, "
                   f"rate {d.rate[i] * KMOL_H:,.1f} kmol/h (minimum {d.rate_min[i] * KMOL_H:,.1f}); {status}")
 
     sep = _table("Separation", "solute", "K", fw, "theoretical stages", "inlet", "outlet", "spec",
@@ -60,8 +72,10 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
     for s, name in enumerate(case.solutes):
         inlet, out, target = case.feed_in[s], d.outlet[i, s], case.target[s]
         mark = "" if out <= target * (1 + SPEC_TOLERANCE) else "  (misses)"
-        sep.add_row(name, f"{case.k_value[a, s]:.4g}", f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}",
-                    mole_fraction_text(inlet), mole_fraction_text(out) + mark, mole_fraction_text(target), f"{100 * (1 - out / inlet):.3f} %")
+        removed = f"{100 * (1 - out / inlet):.3f} %" if inlet > 0 else "-"
+        sep.add_row(_text(name), f"{case.k_value[a, s]:.4g}", f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}",
+                    concentration_text(case, s, inlet), concentration_text(case, s, out) + mark,
+                    concentration_text(case, s, target), removed)
     console.print(sep)
 
     col = _table("Column (estimating figures, not a mechanical design)", "item", "value", right=(1,))
@@ -108,7 +122,7 @@ def print_warnings(console: Console, warnings: list[str]) -> None:
     if warnings:
         console.print("[bold]Warnings[/bold]")
         for w in warnings:
-            console.print(f"  - {w}", highlight=False)
+            console.print(f"  - {_text(w)}", highlight=False)
     console.print(f"[dim]{CAUTION}[/dim]")
 
 
@@ -118,9 +132,9 @@ def print_ranking(console: Console, result) -> None:
     rw, fw = _ratio_word(case), _factor_word(case)
     best = float(d.annualized[0])
     key = case.solutes[int(np.argmax(np.where(np.isfinite(case.target), 1.0, 0.0)))]
-    console.print(f"[bold]{case.name}[/bold]: the {len(d)} best of {result.space_size:,} alternatives "
+    console.print(f"[bold]{_text(case.name)}[/bold]: the {len(d)} best of {result.space_size:,} alternatives "
                   f"({result.method}); N = theoretical stages and {fw} = {'absorption' if fw == 'A' else 'stripping'} "
-                  f"factor for {key}; D diameter, H height")
+                  f"factor for {_text(key)}; D diameter, H height")
 
     def table_of(title, designs, ranks=True):
         t = _table(title, "#" if ranks else "", "candidate", "trays", "N", rw, fw, "D m", "H m",
@@ -129,7 +143,7 @@ def print_ranking(console: Console, result) -> None:
         s = case.solutes.index(key)
         for i in range(len(designs)):
             above = (designs.annualized[i] - best) / abs(best) if best else 0.0
-            t.add_row(str(i + 1) if ranks else "", case.agents[int(designs.agent[i])], str(int(designs.trays[i])),
+            t.add_row(str(i + 1) if ranks else "", _text(case.agents[int(designs.agent[i])]), str(int(designs.trays[i])),
                       f"{designs.stages[i, s]:.2f}", f"{designs.ratio[i]:.3f}", f"{designs.factor[i, s]:.3f}",
                       f"{designs.diameter[i]:.2f}", f"{designs.height[i]:.1f}", f"{designs.installed[i] / 1e3:,.0f}",
                       f"{(designs.operating[i] - designs.credit[i]) / 1e3:,.1f}", f"{designs.annualized[i] / 1e3:,.1f}",
@@ -139,10 +153,11 @@ def print_ranking(console: Console, result) -> None:
     console.print(table_of("Ranked designs (operating is net of any credit)", d))
     console.print(table_of("Best design of each candidate", result.per_agent, ranks=False))
     for name, why in result.unmet.items():
-        console.print(f"  {name}: {why}", highlight=False)
+        console.print(f"  {_text(name)}: {_text(why)}", highlight=False)
     b = result.band
     console.print(f"Within {100 * b.margin:g} % of the best ({b.count} designs): trays {b.trays[0]} to {b.trays[1]}, "
-                  f"{rw} {b.ratio[0]:.3f} to {b.ratio[1]:.3f}; candidates: {', '.join(b.agents)}", highlight=False)
+                  f"{rw} {b.ratio[0]:.3f} to {b.ratio[1]:.3f}; candidates: {_text(', '.join(b.agents))}",
+                  highlight=False)
     s = result.solver
     if s["method"] == "model":
         console.print(f"[dim]Model: {s['binaries']:,} binaries after dominance reduction, built in "
@@ -154,14 +169,14 @@ def print_ranking(console: Console, result) -> None:
 
 def print_curve(console: Console, curve) -> None:
     rw = _ratio_word(curve.case)
-    t = _table(f"{curve.agent}: annualized cost against trays (best rate at each)", "trays", rw,
+    t = _table(f"{_text(curve.agent)}: annualized cost against trays (best rate at each)", "trays", rw,
                "diam. m", "installed USD", "annualized USD/yr", right=(0, 1, 2, 3, 4))
     for i in range(len(curve.by_trays)):
         d = curve.by_trays
         t.add_row(str(int(d.trays[i])), f"{d.ratio[i]:.3f}", f"{d.diameter[i]:.3f}", _money(d.installed[i]),
                   _money(d.annualized[i]))
     console.print(t)
-    t = _table(f"{curve.agent}: annualized cost against {rw} (best trays at each level)", rw, "trays",
+    t = _table(f"{_text(curve.agent)}: annualized cost against {rw} (best trays at each level)", rw, "trays",
                "diam. m", "installed USD", "annualized USD/yr", right=(0, 1, 2, 3, 4))
     for i in range(len(curve.by_ratio)):
         d = curve.by_ratio
