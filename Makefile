@@ -4,7 +4,7 @@ VENV   := .venv
 BIN    := $(VENV)/bin
 STAMP  := $(VENV)/.installed
 
-.PHONY: demo test bench clean
+.PHONY: demo test fuzz bench clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -19,6 +19,11 @@ demo: $(STAMP)
 
 test: $(STAMP)
 	$(BIN)/python -m pytest -q models optimizer tests README.md
+
+# At least 10^4 hostile inputs (corrupted demos, generated scenarios, bad command arguments); the last
+# line gives the count and the time. `make test` runs a few hundred of the same cases.
+fuzz: $(STAMP)
+	TOWERCOST_FUZZ=full $(BIN)/python -m pytest -q -s -p no:cacheprovider tests/test_fuzz.py
 
 bench: $(STAMP)
 	$(BIN)/python benchmarks/run.py

@@ -47,6 +47,7 @@ class OneLineGroup(TyperGroup):
 
     def main(self, args=None, prog_name=None, complete_var=None, standalone_mode=True, **extra):
         from typer import _click as click
+        from typer.exceptions import Abort
 
         code = 0
         try:
@@ -65,7 +66,7 @@ class OneLineGroup(TyperGroup):
         except click.exceptions.ClickException as exc:
             typer.echo(f"error: {_one_line(exc.format_message())}", err=True)
             code = exc.exit_code
-        except (click.exceptions.Abort, KeyboardInterrupt):
+        except (Abort, KeyboardInterrupt):
             code = INTERRUPTED
         except Exception as exc:  # noqa: BLE001 - a bug outside the commands' own handling
             code = _internal_code(exc, DEFAULT_OUT)
@@ -166,15 +167,62 @@ def _sized(scenario, agent: str | None = None):
     return _run(check)
 
 
+class _Working:
+    """A spinner on a terminal's standard error once a step with no bar of its own passes about a second."""
+
+    def __init__(self, label: str, delay: float = 1.0):
+        import threading
+
+        self.label, self.delay = label, delay
+        self.lock = threading.Lock()
+        self.status = None
+        self.stopped = False
+        self.timer = threading.Timer(delay, self._start)
+        self.timer.daemon = True
+
+    def _start(self) -> None:
+        with self.lock:
+            if self.stopped:
+                return
+            from rich.console import Console
+
+            self.status = Console(stderr=True).status(self.label)
+            self.status.start()
+
+    def start(self) -> "_Working":
+        if sys.stderr.isatty():
+            self.timer.start()
+        return self
+
+    def stop(self) -> None:
+        with self.lock:
+            self.stopped = True
+            self.timer.cancel()
+            if self.status is not None:
+                self.status.stop()
+                self.status = None
+
+    def __enter__(self):
+        return self.start()
+
+    def __exit__(self, *exc) -> None:
+        self.stop()
+
+
 def _progress():
-    """A progress callback for long evaluations: a rich bar on stderr once a run passes about a second."""
+    """A progress callback for long evaluations: a rich bar on stderr once a run passes about a second, then a
+    spinner while the selection and the exact re-evaluation run (``update.finish()`` ends it)."""
     import time
 
-    state: dict = {"start": time.perf_counter(), "bar": None}
+    state: dict = {"start": time.perf_counter(), "bar": None, "after": None}
 
     def update(done: int, total: int) -> None:
+        if state["bar"] is False:   # the bar has run and stopped; later unit spaces go unshown
+            return
         if state["bar"] is None:
             if time.perf_counter() - state["start"] < 1.0 or done >= total:
+                if done >= total and state["after"] is None:
+                    state["after"] = _Working("selecting and re-evaluating the best designs").start()
                 return
             from rich.console import Console
             from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
@@ -187,7 +235,15 @@ def _progress():
         bar.update(state["task"], completed=done, total=total)
         if done >= total:
             bar.stop()
+            state["bar"] = False
+            if state["after"] is None:
+                state["after"] = _Working("selecting and re-evaluating the best designs").start()
 
+    def finish() -> None:
+        if state["after"] is not None:
+            state["after"].stop()
+
+    update.finish = finish
     return update
 
 
@@ -328,6 +384,11 @@ def evaluate(
     _check("--ratio", ratio, 0.0, 1000.0, "a number > 0 and at most 1000", high_open=False)
     data = _load(scenario)
     molar = None
+    from towercost.scenario.units import is_gas_volume
+
+    if rate_ is not None and data.case.mode == "absorb" and is_gas_volume(rate_):
+        _fail(f"--rate {rate_!r} is a gas volume at normal or standard conditions, but the solvent is a liquid: "
+              "give a molar rate (kmol/h, lbmol/h)")
     if rate_ is not None:
         try:
             molar = to_si(rate_, "mol/s", what="--rate", basis=data.units.basis(), require_unit=True,
@@ -382,7 +443,11 @@ def optimize(
     targets = ([out / f"{stem}-designs.csv"] if csv else []) + ([out / f"{stem}-report.json"] if save else [])
     _run(lambda: files.check_targets(targets, force=force))   # every target before any work
     _sized(data)
-    result = _run(lambda: ranking.optimize(data, top=top, method=method.value, progress=_progress()), out)
+    progress = _progress()
+    try:
+        result = _run(lambda: ranking.optimize(data, top=top, method=method.value, progress=progress), out)
+    finally:
+        progress.finish()
     record = None
     if as_json or save:
         record = records.result_record(result)
@@ -414,7 +479,8 @@ def curve(
 
     data = _load(scenario)
     _sized(data, solvent)
-    result = _run(lambda: ranking.cost_curve(data, solvent))
+    with _Working("evaluating the alternatives of one candidate"):
+        result = _run(lambda: ranking.cost_curve(data, solvent))
     console = terminal.console()
     terminal.print_curve(console, result)
     if data.warnings:

@@ -32,20 +32,23 @@ def _show(case: Case, s: int, x: float) -> str:
     return shown.treated_text(s, float(x)) if shown is not None else mole_fraction_text(float(x))
 
 
-def _lean_limited(case: Case, a: int) -> str:
-    """Why agent ``a`` has no finite least rate: what its entering loading alone holds (one clause)."""
+def _lean_limited(case: Case, a: int) -> tuple[str, str]:
+    """Why agent ``a`` has no finite least rate: what its entering loading alone holds; and what can help."""
     eq = case.service.equilibrium_inlet(case.k_value[a], case.lean[a])
     held = [f"{case.solutes[s]} at {_show(case, s, eq[s])} (spec {_show(case, s, case.target[s])})"
             for s in range(len(case.solutes)) if np.isfinite(case.target[s]) and eq[s] >= case.target[s]]
-    agent = "lean loading" if case.service.agent_is_liquid else "loading of the entering gas"
-    change = "a leaner regenerated solvent" if case.service.agent_is_liquid else "a cleaner stripping gas"
-    return (f"{case.agents[a]!r}: its {agent} alone holds {', '.join(held)}; more trays or more "
-            f"{'solvent' if case.service.agent_is_liquid else 'gas'} cannot help: the lean loading must fall "
-            f"({change}) or the candidate must change")
+    liquid = case.service.agent_is_liquid
+    agent = "lean loading" if liquid else "loading of the entering gas"
+    word = "solvent" if liquid else "stripping_gas"
+    fact = f"{case.agents[a]!r} holds {', '.join(held)} from its {agent} alone"
+    helps = (f"where the entering {'solvent' if liquid else 'gas'} alone holds a solute above its spec, more trays "
+             f"or more {'solvent' if liquid else 'gas'} cannot help: lower its loading ([[{word}]] lean) or use "
+             "another candidate")
+    return fact, helps
 
 
-def _unreachable(space: Space, a: int) -> str:
-    """Agent ``a`` meets the spec nowhere: what it reaches at the most trays and rate, and what would help."""
+def _unreachable(space: Space, a: int) -> tuple[str, str]:
+    """Agent ``a`` meets the spec nowhere: what it reaches at the most trays and rate; and what can help."""
     case = space.case
     word = case.service.ratio_word
     n_max, (_, hi) = case.trays_range[1], case.ratio_range
@@ -59,57 +62,60 @@ def _unreachable(space: Space, a: int) -> str:
     misses = [f"{case.solutes[s]} {_show(case, s, out[s])} (spec {_show(case, s, case.target[s])})"
               for s in range(len(case.solutes)) if out[s] > case.target[s] * (1 + SPEC_TOLERANCE)]
     reached = ", ".join(misses) if misses else "the spec only with a rate outside the ratio range"
-    more = (f"the existing shell holds at most {n_max} trays: a higher {word} (raise [column] ratio) or "
-            "another shell would help" if shell else
-            f"more trays (raise the top of [column] trays) or a higher {word} (raise the top of [column] ratio) "
-            "would help")
-    return f"{case.agents[a]!r} reaches {reached} even at {n_max} trays and {hi:g} x {word.split('/')[1]}; {more}"
+    helps = (f"the existing shell holds at most {n_max} trays: a higher {word} (the top of [column] ratio) or "
+             "another shell would help" if shell else
+             f"more trays (the top of [column] trays) or a higher {word} (the top of [column] ratio) would help")
+    return f"{case.agents[a]!r} reaches {reached} even at {n_max} trays and {hi:g} x {word.split('/')[1]}", helps
 
 
-def _within_limits(space: Space, a: int) -> str:
+def _within_limits(space: Space, a: int) -> tuple[str, str]:
     """Agent ``a`` meets the spec but no such design meets every limit: the least figure of each limit broken."""
     case = space.case
-    parts = []
+    parts, names = [], []
     for name, floor in space.floors.items():
         if floor.least > floor.bound:
             what = floor.label.split(" at most")[0]
-            if name in ("flood", "shell_trays"):
-                help_ = "the existing shell is too small for this duty" if case.shell_diameter else "check the limit"
-            else:
-                help_ = f"raise the limit ({name} in the scenario) or change the candidate"
             parts.append(f"the least {what} of any design meeting the spec is {floor.least:.4g} {floor.unit}".rstrip()
-                         + f", above the limit ({floor.label}); {help_}")
+                         + f", above the limit ({floor.label})")
+            names.append(name)
     if not parts:
         labels = [f.label for f in space.floors.values()]
-        parts.append("no single design meets every limit at once (" + "; ".join(labels) + "); relax one of them")
-    return f"{case.agents[a]!r}: " + "; ".join(parts)
+        return (f"{case.agents[a]!r}: no single design meets every limit at once (" + "; ".join(labels) + ")",
+                "relaxing one of these limits would help")
+    if set(names) <= {"flood", "shell_trays"} and case.shell_diameter is not None:
+        return f"{case.agents[a]!r}: " + "; ".join(parts), "the existing shell is too small for this duty"
+    return (f"{case.agents[a]!r}: " + "; ".join(parts),
+            f"raising {' or '.join(dict.fromkeys(names))} in the scenario, or another candidate, would help")
 
 
-def _joined(parts: list[str]) -> str:
+def _joined(facts: list[str], helps: list[str]) -> str:
+    """The facts, one per candidate, then each distinct remedy once; long lists counted, not listed."""
     out, length = [], 0
-    for i, part in enumerate(parts):
-        if out and length + len(part) > MAX_LINE:
-            out.append(f"and {len(parts) - i} more candidates")
+    for i, fact in enumerate(facts):
+        if out and length + len(fact) > MAX_LINE:
+            out.append(f"and {len(facts) - i} more candidates")
             break
-        out.append(part)
-        length += len(part) + 2
-    return "; ".join(out)
+        out.append(fact)
+        length += len(fact) + 2
+    return "; ".join(out + list(dict.fromkeys(helps)))
 
 
 def infeasible_reason(space: Space) -> str:
     """Why no alternative of ``space`` qualifies, for each of its candidates, in one line."""
     case = space.case
     agents = [int(a) for a in space.agents] if len(space.agents) else list(range(len(case.agents)))
-    parts, any_spec = [], False
+    facts, helps, any_spec = [], [], False
     for a in agents:
         own = space if len(agents) == 1 else build_space(case, agents=[a])
         if len(own) == 0 or own.spec_met == 0:
-            parts.append(_unreachable(own, a))
+            fact, help_ = _unreachable(own, a)
         else:
             any_spec = True
-            parts.append(_within_limits(own, a))
+            fact, help_ = _within_limits(own, a)
+        facts.append(fact)
+        helps.append(help_)
     head = "no design meets the spec within the limits" if any_spec else "no design meets the spec"
-    return f"{head}: {_joined(parts)}"
+    return f"{head}: {_joined(facts, helps)}"
 
 
 # --------------------------------------------------------------------------- size

@@ -48,7 +48,15 @@ def in_words(exc: OSError) -> str:
     }.get(exc.errno, "the system refused it")
 
 
+def _clip(path) -> str:
+    """A path for a message: long ones cut in the middle."""
+    text = str(path)
+    return text if len(text) <= 120 else f"{text[:50]}...{text[-50:]} ({len(text):,} characters)"
+
+
 def _kind(mode: int) -> str:
+    if stat.S_ISREG(mode):
+        return "a file"
     if stat.S_ISDIR(mode):
         return "a folder"
     if stat.S_ISFIFO(mode):
@@ -68,22 +76,22 @@ def _folder_problem(folder: Path) -> str | None:
             info = os.stat(probe)
         except FileNotFoundError:
             if probe.parent == probe:
-                return f"the folder {folder} cannot be created"
+                return f"the folder {_clip(folder)} cannot be created"
             probe = probe.parent
             continue
         except NotADirectoryError:
             probe = probe.parent
             continue
         except OSError as exc:
-            return f"the folder {folder} cannot be reached ({in_words(exc)})"
+            return f"the folder {_clip(folder)} cannot be reached ({in_words(exc)})"
         break
     if not stat.S_ISDIR(info.st_mode):
-        return (f"{probe} is {_kind(info.st_mode)}, not a folder, so {folder} cannot be used" if probe != folder
-                else f"the output folder {folder} is {_kind(info.st_mode)}, not a folder")
+        return (f"{_clip(probe)} is {_kind(info.st_mode)}, not a folder, so {_clip(folder)} cannot be used" if probe != folder
+                else f"the output folder {_clip(folder)} is {_kind(info.st_mode)}, not a folder")
     if not os.access(probe, os.W_OK | os.X_OK):
         if probe == folder:
-            return f"the output folder {folder} is read-only for this user"
-        return f"the folder {probe} is read-only for this user, so {folder} cannot be made in it"
+            return f"the output folder {_clip(folder)} is read-only for this user"
+        return f"the folder {_clip(probe)} is read-only for this user, so {_clip(folder)} cannot be made in it"
     return None
 
 
@@ -91,7 +99,7 @@ def check_target(path: Path, *, force: bool = False) -> Path:
     """``path`` if a new file may be written there (or, with ``force``, may replace what is there); else OutputError."""
     path = Path(path)
     if path.name in ("", ".", ".."):
-        raise OutputError(f"{path} names a folder, not a file")
+        raise OutputError(f"{_clip(path)} names a folder, not a file")
     if len(os.fsencode(path.name)) > NAME_MAX:
         raise OutputError(f"the file name {path.name[:40]}... is too long ({len(os.fsencode(path.name))} bytes; "
                           f"at most {NAME_MAX})")
@@ -102,19 +110,19 @@ def check_target(path: Path, *, force: bool = False) -> Path:
     except NotADirectoryError:
         info = None  # a part of the path is a file: said by the folder check below
     except OSError as exc:
-        raise OutputError(f"{path} cannot be checked ({in_words(exc)})") from None
+        raise OutputError(f"{_clip(path)} cannot be checked ({in_words(exc)})") from None
     if info is not None:
         if stat.S_ISLNK(info.st_mode):
             if not force:
                 dangling = not os.path.exists(path)
-                raise TargetExists(f"{path} is a symbolic link{' to a missing file' if dangling else ''}; pass "
+                raise TargetExists(f"{_clip(path)} is a symbolic link{' to a missing file' if dangling else ''}; pass "
                                    "--force to replace the link (the file it points to is left alone)")
         elif stat.S_ISDIR(info.st_mode):
-            raise OutputError(f"{path} is a folder; give the name of a file")
+            raise OutputError(f"{_clip(path)} is a folder; give the name of a file")
         elif not stat.S_ISREG(info.st_mode):
-            raise OutputError(f"{path} is {_kind(info.st_mode)}; towercost replaces only regular files")
+            raise OutputError(f"{_clip(path)} is {_kind(info.st_mode)}; towercost replaces only regular files")
         elif not force:
-            raise TargetExists(f"{path} exists; pass --force to replace it")
+            raise TargetExists(f"{_clip(path)} exists; pass --force to replace it")
     problem = _folder_problem(path.parent)
     if problem:
         raise OutputError(problem)
@@ -128,7 +136,7 @@ def check_targets(paths, *, force: bool = False) -> list[Path]:
     for path in paths:
         key = os.path.abspath(path)
         if key in seen:
-            raise OutputError(f"{path} is named twice")
+            raise OutputError(f"{_clip(path)} is named twice")
         seen.add(key)
         check_target(path, force=force)
     return paths
@@ -162,18 +170,18 @@ def _commit(tmp: str, path: Path, force: bool) -> None:
         except FileNotFoundError:
             info = None
         if info is not None and not (stat.S_ISREG(info.st_mode) or stat.S_ISLNK(info.st_mode)):
-            raise OutputError(f"{path} is {_kind(info.st_mode)}; towercost replaces only regular files")
+            raise OutputError(f"{_clip(path)} is {_kind(info.st_mode)}; towercost replaces only regular files")
         os.replace(tmp, path)
         return
     try:
         os.link(tmp, path)        # fails if anything took the name since the check
     except FileExistsError:
-        raise TargetExists(f"{path} exists; pass --force to replace it") from None
+        raise TargetExists(f"{_clip(path)} exists; pass --force to replace it") from None
     except OSError as exc:
         if exc.errno not in (errno.EPERM, errno.ENOTSUP, errno.EOPNOTSUPP, errno.EXDEV, errno.EMLINK):
             raise
         if os.path.lexists(path):  # no hard links on this file system: check, then rename
-            raise TargetExists(f"{path} exists; pass --force to replace it") from None
+            raise TargetExists(f"{_clip(path)} exists; pass --force to replace it") from None
         os.replace(tmp, path)
         return
     os.unlink(tmp)
@@ -195,7 +203,7 @@ def write_all(items, *, force: bool = False) -> list[Path]:
                 path.parent.mkdir(parents=True, exist_ok=True)
                 fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name[:200]}.", suffix=".tmp")
             except OSError as exc:
-                raise OutputError(f"cannot write in the folder {path.parent} ({in_words(exc)})") from None
+                raise OutputError(f"cannot write in the folder {_clip(path.parent)} ({in_words(exc)})") from None
             pending.append((tmp, path))
             data = text.encode("utf-8") if isinstance(text, str) else bytes(text)
             try:
@@ -205,7 +213,7 @@ def write_all(items, *, force: bool = False) -> list[Path]:
                     os.fsync(handle.fileno())
                 os.chmod(tmp, mode)
             except OSError as exc:
-                raise OutputError(f"cannot write {path} ({in_words(exc)})") from None
+                raise OutputError(f"cannot write {_clip(path)} ({in_words(exc)})") from None
         while pending:
             tmp, path = pending[0]
             try:
@@ -213,7 +221,7 @@ def write_all(items, *, force: bool = False) -> list[Path]:
             except OSError as exc:
                 if isinstance(exc, OutputError):
                     raise
-                raise OutputError(f"cannot write {path} ({in_words(exc)})") from None
+                raise OutputError(f"cannot write {_clip(path)} ({in_words(exc)})") from None
             pending.pop(0)
             _sync_folder(path.parent)
     finally:

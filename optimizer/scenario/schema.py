@@ -45,7 +45,7 @@ from towercost.models.equilibrium import HENRY_SCALES
 from towercost.scenario import concentration as conc
 from towercost.scenario import envelope as env
 from towercost.scenario.envelope import number, quantity
-from towercost.scenario.units import DEFAULT_BASIS, Basis, UnitError, dimension_of, to_si
+from towercost.scenario.units import DEFAULT_BASIS, Basis, UnitError, dimension_of, is_gas_volume, to_si
 
 __all__ = ["Scenario", "HENRY_SCALES", "MAX_NAME", "MAX_CANDIDATES", "MAX_SOLUTES"]
 
@@ -482,6 +482,10 @@ def _convert_concentrations(data: Any, info) -> Any:
         return data
     basis = env._basis(info)
     treated = "gas" if mode == "absorb" else "liquid"
+    feed = data.get("feed")
+    if treated == "liquid" and isinstance(feed, dict) and is_gas_volume(feed.get("flow")):
+        raise ValueError(f"[feed] flow: {feed['flow']!r} is a gas volume at normal or standard conditions, but the "
+                         "feed of a stripper is a liquid: give a molar, mass or volume flow (kmol/h, kg/h, m3/h)")
     word = "solvent" if mode == "absorb" else "stripping_gas"
     molar: dict[str, float | None] = {}
     sources = [data.get("solute"), (data.get("economics") or {}).get("solute_molar_mass")

@@ -224,7 +224,7 @@ def to_si(value, unit: str, *, what: str = "value", basis: Basis | None = None, 
     number, text = _split(value, unit, what)
     if not text:
         if require_unit:
-            raise UnitError(f"{what}: {_short(value)} has no unit; write it with one, e.g. \"{value:g} {example or unit}\"")
+            raise UnitError(f"{what}: {_short(value)} has no unit; write it with one, e.g. \"{number:g} {example or unit}\"")
         return number
     offset = 0.0
     if text in _ABSOLUTE:
@@ -263,6 +263,14 @@ def _standard_flow(number: float, text: str, basis: Basis) -> float | None:
         per_second = number * scale * FOOT**3 / _SECONDS[time_unit]
         return per_second * basis.standard_pressure / (GAS_CONSTANT * basis.standard_temperature)
     return None
+
+
+def is_gas_volume(value) -> bool:
+    """True for text of a gas flow at normal or standard conditions ("2000 Nm3/h", "500 scfm")."""
+    if not isinstance(value, str) or len(value) > MAX_TEXT:
+        return False
+    match = _NUMBER.match(value)
+    return bool(match) and (bool(_NORMAL.match(match.group(2))) or match.group(2) in _STANDARD)
 
 
 def dimension_of(value) -> str | None:
