@@ -61,7 +61,8 @@ class OneLineGroup(TyperGroup):
             code = exc.exit_code
         except click.exceptions.UsageError as exc:
             where = exc.ctx.command_path if exc.ctx is not None else "towercost"
-            typer.echo(f"error: {where}: {_one_line(exc.format_message())}; see '{where} --help'", err=True)
+            typer.echo(f"error: {where}: {_one_line(exc.format_message()).rstrip('.')}; see '{where} --help'",
+                       err=True)
             code = BAD_INPUT
         except click.exceptions.ClickException as exc:
             typer.echo(f"error: {_one_line(exc.format_message())}", err=True)

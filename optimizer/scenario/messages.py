@@ -65,7 +65,7 @@ def location(data: Any, path: tuple) -> str:
     if rest and isinstance(rest[0], int):
         item = _raw_at(data, (head, rest[0]))
         name = (item.get("name") or item.get("solute")) if isinstance(item, dict) else None
-        label = f"[[{head}]] {clip(repr(name), 50)}" if isinstance(name, str) and name else f"[[{head}]] #{rest[0] + 1}"
+        label = f"[[{head}]] {value_text(name)}" if isinstance(name, str) and name else f"[[{head}]] #{rest[0] + 1}"
         rest = rest[1:]
     else:
         label = f"[{clip(str(head), 50)}]"
@@ -76,10 +76,17 @@ def location(data: Any, path: tuple) -> str:
 _location = location
 
 
+def value_text(raw: Any) -> str:
+    """A value as the user wrote it (repr), a long string cut with its length said."""
+    if isinstance(raw, str) and len(raw) > SHOWN:
+        return f"{raw[:SHOWN - 10]!r}... ({len(raw):,} characters)"
+    return clip(repr(raw))
+
+
 def shown(data: Any, path: tuple) -> str:
     """The value at ``path`` as the user wrote it, cut to a readable length."""
     raw = _raw_at(data, path)
-    return "(not given)" if raw is _MISSING else clip(repr(raw))
+    return "(not given)" if raw is _MISSING else value_text(raw)
 
 
 def _models_in(annotation) -> list[type[BaseModel]]:
@@ -133,7 +140,7 @@ def one_line(path: str, error: dict, data: Any) -> str:
     if kind == "missing" or not exists:
         return clip(f"{prefix}: required value is missing", 400)
     raw = _raw_at(data, keys)
-    text = clip(repr(raw))
+    text = value_text(raw)
     given = "" if raw is _MISSING or isinstance(raw, (dict, list)) or text in message else f", got {text}"
     return clip(f"{prefix}: {message}{given}", 400)
 

@@ -45,7 +45,8 @@ from towercost.models.equilibrium import HENRY_SCALES
 from towercost.scenario import concentration as conc
 from towercost.scenario import envelope as env
 from towercost.scenario.envelope import number, quantity
-from towercost.scenario.units import DEFAULT_BASIS, Basis, UnitError, dimension_of, is_gas_volume, to_si
+from towercost.scenario.units import (DEFAULT_BASIS, NUMBER, Basis, UnitError, dimension_of, is_gas_volume,
+                                      registry, to_si, words)
 
 __all__ = ["Scenario", "HENRY_SCALES", "MAX_NAME", "MAX_CANDIDATES", "MAX_SOLUTES"]
 
@@ -148,7 +149,11 @@ class Feed(_Table):
                 molar_mass = to_si(data["molar_mass"], "kg/mol", what="molar_mass", basis=basis)
                 value = to_si(raw, "m^3/s", basis=basis) * density / molar_mass
             else:
-                raise ValueError(f"flow {raw!r} must be a molar, mass or volume flow per time, got {dim}")
+                try:
+                    kind = words(registry().Quantity(NUMBER.match(raw).group(2)).dimensionality)
+                except Exception:  # noqa: BLE001 - the dimension as pint writes it will do
+                    kind = dim
+                raise ValueError(f"flow {raw!r} must be a molar, mass or volume flow per time, not {kind}")
         except UnitError as exc:
             raise ValueError(str(exc)) from None
         if not (math.isfinite(value) and value > 0):
