@@ -57,8 +57,9 @@ class OneLineGroup(TyperGroup):
                 code = super().main(args=args, prog_name=prog_name, complete_var=complete_var,
                                     standalone_mode=False, **extra) or 0
         except click.exceptions.NoArgsIsHelpError as exc:
-            exc.show()
-            code = exc.exit_code
+            typer.echo(exc.format_message())
+            typer.echo("error: towercost: give a command; see 'towercost --help'", err=True)
+            code = BAD_INPUT
         except click.exceptions.UsageError as exc:
             where = exc.ctx.command_path if exc.ctx is not None else "towercost"
             typer.echo(f"error: {where}: {_one_line(exc.format_message()).rstrip('.')}; see '{where} --help'",
@@ -155,14 +156,18 @@ def _load(path: Path):
     return _run(lambda: load_scenario(path))
 
 
-def _sized(scenario, agent: str | None = None):
-    """The prepared case, after checking that its design space fits in memory (before any evaluation)."""
+def _checked(scenario, path: Path, agent: str | None = None):
+    """Before any evaluation: every candidate computable and the design space within memory (one line if not)."""
     from towercost.design.case import agent_index, prepare
-    from towercost.design.reasons import check_size
+    from towercost.design.reasons import check_case
+    from towercost.errors import ScenarioError
 
     def check():
         case = prepare(scenario)
-        check_size(case, None if agent is None else [agent_index(case, agent)])
+        try:
+            check_case(case, None if agent is None else [agent_index(case, agent)])
+        except ScenarioError as exc:
+            raise type(exc)(f"{path}, {exc}" if str(exc).startswith("[") else f"{path}: {exc}") from None
         return case
 
     return _run(check)
@@ -398,6 +403,7 @@ def evaluate(
             _fail(str(exc))
         if not (math.isfinite(molar) and 0 < molar <= 1e7 / 3.6):
             _fail(f"--rate must be a flow > 0 and at most 1e7 kmol/h, got {rate_!r}")
+    _checked(data, scenario, solvent)
     case, designs, warnings_ = _run(lambda: ranking.evaluate_design(data, solvent, trays, ratio=ratio, rate=molar))
     if as_json:
         record = records.design_record(case, designs)
@@ -443,7 +449,7 @@ def optimize(
     stem = scenario.stem or "scenario"
     targets = ([out / f"{stem}-designs.csv"] if csv else []) + ([out / f"{stem}-report.json"] if save else [])
     _run(lambda: files.check_targets(targets, force=force))   # every target before any work
-    _sized(data)
+    _checked(data, scenario)
     progress = _progress()
     try:
         result = _run(lambda: ranking.optimize(data, top=top, method=method.value, progress=progress), out)
@@ -479,7 +485,7 @@ def curve(
     from towercost.select import ranking
 
     data = _load(scenario)
-    _sized(data, solvent)
+    _checked(data, scenario, solvent)
     with _Working("evaluating the alternatives of one candidate"):
         result = _run(lambda: ranking.cost_curve(data, solvent))
     console = terminal.console()

@@ -5,9 +5,10 @@ the best figure it reaches and only the changes that can help (when the
 entering agent alone holds a solute above its spec, more trays or more agent
 cannot help: the lean loading or the candidate must change).
 
-``check_size``: before any evaluation, whether the design space fits in
-memory, from the flowsheet's upper bound on its alternatives; if not, the
-estimate and the values to change.
+``check_case``: before any evaluation, whether every candidate lies within
+what the relations can compute, and (``check_size``) whether the design
+space fits in memory, from the flowsheet's upper bound on its alternatives;
+if not, the estimate and the values to change.
 """
 
 from __future__ import annotations
@@ -20,7 +21,7 @@ from towercost.design import cascade
 from towercost.design.case import Case
 from towercost.design.limits import SPEC_TOLERANCE
 from towercost.design.space import Space, build_space
-from towercost.errors import TooLarge
+from towercost.errors import ScenarioError, TooLarge
 from towercost.scenario.units import mole_fraction_text
 
 #: Longest reason line [characters]; candidates beyond it are counted, not listed.
@@ -142,6 +143,47 @@ def available_memory() -> int:
         return os.sysconf("SC_AVPHYS_PAGES") * os.sysconf("SC_PAGE_SIZE")
     except (ValueError, OSError, AttributeError):
         return 4 * 2**30
+
+
+#: K = y/x at column conditions the relations are used over: the range a K-value given directly may take.
+K_RANGE = (1e-12, 1e12)
+
+
+def check_case(case: Case, agents=None, *, memory: int | None = None) -> int:
+    """Before any evaluation: every candidate within what the relations can compute, and the space within memory.
+
+    Refused, in one line naming the candidate: a K at column conditions
+    outside ``K_RANGE`` (from Henry's-law or vapour-pressure data, or the
+    column's temperature and pressure); a gas at column conditions no lighter
+    than the liquid (the flooding correlation needs rho_L > rho_G); a stream
+    in equilibrium with the entering one above a mole fraction of 1 (y_in / K
+    for the solvent of an absorber, K x_in for the gas of a stripper), which
+    no dilute relation can follow. Then ``check_size``. Returns the estimate.
+    """
+    liquid = case.service.agent_is_liquid
+    word = "solvent" if liquid else "stripping_gas"
+    chosen = range(len(case.agents)) if agents is None else agents
+    for a in chosen:
+        name = case.agents[a]
+        for s, solute in enumerate(case.solutes):
+            k = float(case.k_value[a, s])
+            if not (np.isfinite(k) and K_RANGE[0] <= k <= K_RANGE[1]):
+                raise ScenarioError(f"[[{word}]] {name!r} k.{solute}: K at column conditions is {k:.4g}, outside "
+                                    f"{K_RANGE[0]:g} to {K_RANGE[1]:g}; check its data and the column's temperature "
+                                    "and pressure")
+        rho_gas, rho_liquid = float(case.gas_density[a]), float(case.liquid_density[a])
+        if not rho_gas < rho_liquid:
+            raise ScenarioError(f"[[{word}]] {name!r}: the gas at column conditions ({rho_gas:.4g} kg/m3) is no "
+                                f"lighter than the liquid ({rho_liquid:.4g} kg/m3); check the molar masses, the "
+                                "pressure and the density")
+        with np.errstate(divide="ignore", over="ignore"):
+            other = case.feed_in / case.k_value[a] if liquid else case.feed_in * case.k_value[a]
+        if not float(np.sum(other)) < 1.0:
+            phase = "solvent" if liquid else "gas"
+            raise ScenarioError(f"[[{word}]] {name!r}: in equilibrium with the entering feed its {phase} would hold "
+                                f"a solute mole fraction of {float(np.sum(other)):.4g} (more than all solute): far "
+                                "beyond the dilute relations used here; check K and the feed composition")
+    return check_size(case, agents, memory=memory)
 
 
 def check_size(case: Case, agents=None, *, memory: int | None = None) -> int:

@@ -86,8 +86,9 @@ def _folder_problem(folder: Path) -> str | None:
             return f"the folder {_clip(folder)} cannot be reached ({in_words(exc)})"
         break
     if not stat.S_ISDIR(info.st_mode):
-        return (f"{_clip(probe)} is {_kind(info.st_mode)}, not a folder, so {_clip(folder)} cannot be used" if probe != folder
-                else f"the output folder {_clip(folder)} is {_kind(info.st_mode)}, not a folder")
+        if probe != folder:
+            return f"{_clip(probe)} is {_kind(info.st_mode)}, not a folder, so {_clip(folder)} cannot be used"
+        return f"the output folder {_clip(folder)} is {_kind(info.st_mode)}, not a folder"
     if not os.access(probe, os.W_OK | os.X_OK):
         if probe == folder:
             return f"the output folder {_clip(folder)} is read-only for this user"

@@ -29,8 +29,9 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass
+from typing import Any
 
-from towercost.scenario.units import MAX_TEXT, UnitError, mole_fraction_text
+from towercost.scenario.units import MAX_TEXT, Basis, UnitError, is_gas_volume, mole_fraction_text, to_si
 
 #: Gas units: name -> mole fraction per unit.
 GAS = {"ppmv": 1e-6, "ppbv": 1e-9, "pptv": 1e-12, "%": 1e-2, "vol%": 1e-2, "mol%": 1e-2}
@@ -62,7 +63,8 @@ def json_schema() -> dict:
              "mass in [solute.<name>])")
     return {"anyOf": [{"type": "number", "minimum": 0, "exclusiveMaximum": 1},
                       {"type": "string", "pattern": rf"^\s*[+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*({units})?\s*$"}],
-            "description": words, "x-description": words, "x-dimension": "a concentration", "examples": ["20 ppmv", "5 ug/L"]}
+            "description": words, "x-description": words, "x-dimension": "a concentration",
+            "examples": ["20 ppmv", "5 ug/L"]}
 
 
 @dataclass(frozen=True)
@@ -238,3 +240,116 @@ def liquid_unit(used: str | None, solute_molar_mass: float | None, liquid: Liqui
     if solute_molar_mass is not None and liquid is not None and liquid.molar_mass is not None:
         return "ppmw"
     return "mole fraction"
+
+
+def display_for(scenario, used: dict) -> Display:
+    """The units a scenario's concentrations are shown in: gas ppmv; liquid as written (``used``), else ppmw."""
+    absorb = scenario.case.mode == "absorb"
+    solutes = scenario.solutes
+    molar = tuple(scenario.solute_molar_mass(s) for s in solutes)
+    feed_liquid = None if absorb else Liquid(scenario.feed.molar_mass, scenario.feed.density)
+    agent_liquids = tuple(Liquid(a.molar_mass, a.density) if absorb else None for a in scenario.agents)
+
+    def liquid_units(key, liquid):
+        return tuple(liquid_unit(used.get(key(s)), molar[i], liquid) for i, s in enumerate(solutes))
+
+    treated = ("ppmv",) * len(solutes) if absorb else liquid_units(lambda s: ("treated", s), feed_liquid)
+    agents = tuple(liquid_units(lambda s, a=a: ("agent", a, s), agent_liquids[a]) if absorb
+                   else ("ppmv",) * len(solutes) for a in range(len(scenario.agents)))
+    return Display(treated_phase="gas" if absorb else "liquid", agent_phase="liquid" if absorb else "gas",
+                   treated_units=treated, agent_units=agents, treated_liquid=feed_liquid,
+                   agent_liquids=agent_liquids, solute_molar_mass=molar)
+
+
+# --------------------------------------------------------------------------- a scenario's text
+
+
+def _quiet_si(value, unit: str, basis: Basis) -> float | None:
+    """``value`` in ``unit`` or None where it cannot be read (the field itself reports on it)."""
+    if value is None:
+        return None
+    try:
+        return to_si(value, unit, basis=basis)
+    except UnitError:
+        return None
+
+
+def convert_raw(data: Any, basis: Basis) -> tuple[Any, dict]:
+    """A scenario as read (a dict), its concentration text turned into mole fractions per phase.
+
+    Returns the new dict and the unit each concentration was written in:
+    ``("treated", solute)`` for the treated stream, ``("agent", index,
+    solute)`` for a candidate's entering loading. UnitError names the field.
+    """
+    if not isinstance(data, dict) or not isinstance(data.get("case"), dict):
+        return data, {}
+    mode = data["case"].get("mode")
+    if mode not in ("absorb", "strip"):
+        return data, {}
+    treated = "gas" if mode == "absorb" else "liquid"
+    feed = data.get("feed")
+    if treated == "liquid" and isinstance(feed, dict) and is_gas_volume(feed.get("flow")):
+        raise UnitError(f"[feed] flow: {feed['flow']!r} is a gas volume at normal or standard conditions, but the "
+                         "feed of a stripper is a liquid: give a molar, mass or volume flow (kmol/h, kg/h, m3/h)")
+    word = "solvent" if mode == "absorb" else "stripping_gas"
+    molar: dict[str, float | None] = {}
+    sources = [data.get("solute"), (data.get("economics") or {}).get("solute_molar_mass")
+               if isinstance(data.get("economics"), dict) else None]
+    for source in sources:
+        if isinstance(source, dict):
+            for name, item in source.items():
+                raw = item.get("molar_mass") if isinstance(item, dict) else item
+                molar.setdefault(name, _quiet_si(raw, "kg/mol", basis))
+
+    def liquid_of(table) -> Liquid:
+        return Liquid(_quiet_si(table.get("molar_mass"), "kg/mol", basis),
+                      _quiet_si(table.get("density"), "kg/m^3", basis))
+
+    used: dict = {}
+    data = dict(data)
+    feed = data.get("feed")
+    if isinstance(feed, dict) and isinstance(feed.get("composition"), dict):
+        liquid = liquid_of(feed) if treated == "liquid" else None
+        converted = {}
+        for solute, value in feed["composition"].items():
+            converted[solute], unit = _read(value, treated, f"[feed] composition.{solute}", liquid,
+                                            molar.get(solute))
+            if unit:
+                used.setdefault(("treated", solute), unit)
+        data["feed"] = {**feed, "composition": converted}
+    specs = data.get("spec")
+    if isinstance(specs, list):
+        liquid = liquid_of(feed) if treated == "liquid" and isinstance(feed, dict) else None
+        out = []
+        for item in specs:
+            if isinstance(item, dict) and "outlet" in item:
+                solute = item.get("solute")
+                x, unit = _read(item["outlet"], treated, f"[[spec]] {solute!r} outlet", liquid,
+                                molar.get(solute) if isinstance(solute, str) else None)
+                if unit:
+                    used[("treated", solute)] = unit
+                item = {**item, "outlet": x}
+            out.append(item)
+        data["spec"] = out
+    agents = data.get(word)
+    if isinstance(agents, list):
+        phase = "liquid" if mode == "absorb" else "gas"
+        out = []
+        for a, agent in enumerate(agents):
+            if isinstance(agent, dict) and isinstance(agent.get("lean"), dict):
+                liquid = liquid_of(agent) if phase == "liquid" else None
+                label = agent.get("name") if isinstance(agent.get("name"), str) else f"#{a + 1}"
+                lean = {}
+                for solute, value in agent["lean"].items():
+                    lean[solute], unit = _read(value, phase, f"[[{word}]] {label[:40]!r} lean.{solute}", liquid,
+                                               molar.get(solute))
+                    if unit:
+                        used[("agent", a, solute)] = unit
+                agent = {**agent, "lean": lean}
+            out.append(agent)
+        data[word] = out
+    return data, used
+
+
+def _read(value, phase, where, liquid, molar_mass):
+    return parse(value, phase, what=where, liquid=liquid, solute_molar_mass=molar_mass)

@@ -238,11 +238,13 @@ def number(envelope: Envelope, *, schema: dict | None = None):
 # scenario computes in finite numbers). Usual ranges: common practice.
 
 E = Envelope
-COLUMN_TEMPERATURE = E("column temperature", "K", "degC", -273.15, 1000.0, low_open=True, usual=(-50.0, 300.0), example=30.0)
+COLUMN_TEMPERATURE = E("column temperature", "K", "degC", -273.15, 1000.0, low_open=True, usual=(-50.0, 300.0),
+                       example=30.0)
 REFERENCE_TEMPERATURE = E("reference temperature of a Henry's-law constant", "K", "degC", -273.15, 1000.0,
                           low_open=True, usual=(0.0, 100.0), example=25.0)
-BASIS_TEMPERATURE = E("reference temperature", "K", "degC", -273.15, 100.0, low_open=True, usual=(0.0, 25.0), example=0.0)
-COLUMN_PRESSURE = E("absolute pressure", "Pa", "bara", 0.0, 1000.0, low_open=True, usual=(0.1, 150.0), example=1.2)
+BASIS_TEMPERATURE = E("reference temperature", "K", "degC", -273.15, 100.0, low_open=True, usual=(0.0, 25.0),
+                      example=0.0)
+COLUMN_PRESSURE = E("absolute pressure", "Pa", "bara", 0.01, 1000.0, usual=(0.1, 150.0), example=1.2)
 VAPOUR_PRESSURE = E("vapour pressure", "Pa", "kPa", 0.0, 1e5, low_open=True, example=5.0)
 ATMOSPHERE = E("atmospheric pressure", "Pa", "kPa", 50.0, 110.0, usual=(70.0, 105.0), example=101.325)
 MOLAR_FLOW = E("feed flow (molar, mass or volume)", "mol/s", "kmol/h", 0.0, 1e7, low_open=True,
@@ -255,20 +257,23 @@ AGENT_PRICE = E("price per mass", "USD/kg", "USD/kg", 0.0, 1e4, usual=(0.0, 50.0
 SOLUTE_CREDIT = E("value of recovered solute", "USD/kg", "USD/kg", 0.0, 1e4, usual=(0.0, 50.0), example=0.5)
 ELECTRICITY = E("electricity price", "USD/J", "USD/kWh", 0.0, 100.0, usual=(0.01, 1.0), example=0.08)
 STEAM = E("steam price", "USD/kg", "USD/t", 0.0, 1e5, usual=(1.0, 200.0), zero_unused=True, example=30.0)
-COOLING_WATER = E("cooling water price", "USD/m^3", "USD/m3", 0.0, 100.0, usual=(0.005, 2.0), zero_unused=True, example=0.05)
+COOLING_WATER = E("cooling water price", "USD/m^3", "USD/m3", 0.0, 100.0, usual=(0.005, 2.0), zero_unused=True,
+                  example=0.05)
 TRAY_SPACING = E("tray spacing", "m", "in", 2.0, 200.0, usual=(6.0, 48.0), example=24.0)
 HEIGHT_LIMIT = E("height limit", "m", "m", 0.0, 1000.0, low_open=True, example=40.0)
 DIAMETER_LIMIT = E("diameter limit", "m", "m", 0.0, 100.0, low_open=True, example=4.0)
 SHELL_DIAMETER = E("inside diameter of an existing shell", "m", "m", 0.1, 50.0, usual=(0.3, 12.0), example=1.5)
-LIFE = E("plant life", "year", "yr", 0.0, 100.0, low_open=True, usual=(3.0, 40.0), example=15.0)
-HOURS = E("hours on stream per year", "hour/year", "h/yr", 0.0, 8784.0, low_open=True, usual=(1000.0, 8784.0), example=8000.0)
+LIFE = E("plant life", "year", "yr", 1.0, 100.0, usual=(3.0, 40.0), example=15.0)
+HOURS = E("hours on stream per year", "hour/year", "h/yr", 0.0, 8784.0, low_open=True, usual=(1000.0, 8784.0),
+          example=8000.0)
 BUDGET = E("installed-cost budget", "USD", "USD", 0.0, 1e13, low_open=True, example=2000000.0)
 POWER = E("electric power limit", "W", "kW", 0.0, 1e7, low_open=True, example=250.0)
 STEAM_LIMIT = E("steam limit", "kg/s", "kg/h", 0.0, 1e8, low_open=True, example=2000.0)
 SOLUTE_MASS_RATE = E("solute leaving in the treated stream", "kg/s", "kg/h", 0.0, 1e6, low_open=True, example=0.5)
 COOLING_RATIO = E("regeneration cooling water per kg of agent circulated", "m^3/kg", "m3/kg", 0.0, 10.0,
                   usual=(0.0, 0.2), example=0.004)
-HENRY_SLOPE = E("temperature dependence d ln H / d(1/T)", "K", "K", -20000.0, 20000.0, usual=(-1000.0, 12000.0), example=4000.0)
+HENRY_SLOPE = E("temperature dependence d ln H / d(1/T)", "K", "K", -20000.0, 20000.0, usual=(-1000.0, 12000.0),
+                example=4000.0)
 
 STEAM_RATIO = E("regeneration steam per kg of agent circulated [kg/kg]", "", "", 0.0, 100.0, usual=(0.0, 1.0))
 K_VALUE = E("K = y/x at column conditions", "", "", 1e-12, 1e12, usual=(1e-5, 1e5))
@@ -276,9 +281,9 @@ HENRY = E("Henry's-law constant in the units of its scale", "", "", 1e-30, 1e30,
 ACTIVITY = E("infinite-dilution activity coefficient", "", "", 1e-6, 1e8, usual=(0.1, 1e5))
 MOLE_FRACTION = E("mole fraction", "", "", 0.0, 1.0, high_open=True)
 REMOVAL = E("fraction of the entering solute removed", "", "", 0.0, 1.0, low_open=True, high_open=True)
-EFFICIENCY = E("overall tray efficiency", "", "", 0.0, 1.0, low_open=True, usual=(0.1, 1.0))
-MURPHREE = E("Murphree vapour efficiency", "", "", 0.0, 1.0, low_open=True, usual=(0.2, 1.0))
-FLOOD = E("design fraction of flood", "", "", 0.0, 1.0, low_open=True, usual=(0.5, 0.9))
+EFFICIENCY = E("overall tray efficiency", "", "", 0.01, 1.0, usual=(0.1, 1.0))
+MURPHREE = E("Murphree vapour efficiency", "", "", 0.01, 1.0, usual=(0.2, 1.0))
+FLOOD = E("design fraction of flood", "", "", 0.05, 1.0, usual=(0.5, 0.9))
 LOSS = E("fraction of the circulating agent lost per pass", "", "", 0.0, 1.0, usual=(0.0, 0.05))
 INTEREST = E("interest rate per year", "", "", 0.0, 1.0, usual=(0.01, 0.3))
 FRACTION = E("fraction", "", "", 0.0, 1.0)

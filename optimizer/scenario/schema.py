@@ -45,8 +45,7 @@ from towercost.models.equilibrium import HENRY_SCALES
 from towercost.scenario import concentration as conc
 from towercost.scenario import envelope as env
 from towercost.scenario.envelope import number, quantity
-from towercost.scenario.units import (DEFAULT_BASIS, NUMBER, Basis, UnitError, dimension_of, is_gas_volume,
-                                      registry, to_si, words)
+from towercost.scenario.units import DEFAULT_BASIS, NUMBER, Basis, UnitError, dimension_of, registry, to_si, words
 
 __all__ = ["Scenario", "HENRY_SCALES", "MAX_NAME", "MAX_CANDIDATES", "MAX_SOLUTES"]
 
@@ -393,7 +392,14 @@ class Scenario(_Table):
     @classmethod
     def _concentrations(cls, data: Any, info):
         """Concentration text to mole fractions, per phase; the units used are kept for the output."""
-        return _convert_concentrations(data, info)
+        try:
+            data, used = conc.convert_raw(data, env._basis(info))
+        except UnitError as exc:
+            raise ValueError(str(exc)) from None
+        context = getattr(info, "context", None)
+        if isinstance(context, dict):
+            context["used"] = used
+        return data
 
     @model_validator(mode="after")
     def _consistent(self, info):
@@ -451,111 +457,4 @@ class Scenario(_Table):
 
     def concentrations(self) -> conc.Display:
         """The unit each phase's concentrations are shown in (gas ppmv; liquid as written, else ppmw)."""
-        absorb = self.case.mode == "absorb"
-        solutes = self.solutes
-        molar = tuple(self.solute_molar_mass(s) for s in solutes)
-        feed_liquid = None if absorb else conc.Liquid(self.feed.molar_mass, self.feed.density)
-        agent_liquids = tuple(conc.Liquid(a.molar_mass, a.density) if absorb else None for a in self.agents)
-
-        def liquid_units(key, liquid):
-            return tuple(conc.liquid_unit(self._used.get(key(s)), molar[i], liquid) for i, s in enumerate(solutes))
-
-        treated = (("ppmv",) * len(solutes) if absorb
-                   else liquid_units(lambda s: ("treated", s), feed_liquid))
-        agents = tuple(liquid_units(lambda s, a=a: ("agent", a, s), agent_liquids[a]) if absorb
-                       else ("ppmv",) * len(solutes) for a in range(len(self.agents)))
-        return conc.Display(treated_phase="gas" if absorb else "liquid", agent_phase="liquid" if absorb else "gas",
-                            treated_units=treated, agent_units=agents, treated_liquid=feed_liquid,
-                            agent_liquids=agent_liquids, solute_molar_mass=molar)
-
-
-def _quiet_si(value, unit: str, basis: Basis) -> float | None:
-    """``value`` in ``unit`` or None where it cannot be read (the field itself reports on it)."""
-    if value is None:
-        return None
-    try:
-        return to_si(value, unit, basis=basis)
-    except UnitError:
-        return None
-
-
-def _convert_concentrations(data: Any, info) -> Any:
-    if not isinstance(data, dict) or not isinstance(data.get("case"), dict):
-        return data
-    mode = data["case"].get("mode")
-    if mode not in ("absorb", "strip"):
-        return data
-    basis = env._basis(info)
-    treated = "gas" if mode == "absorb" else "liquid"
-    feed = data.get("feed")
-    if treated == "liquid" and isinstance(feed, dict) and is_gas_volume(feed.get("flow")):
-        raise ValueError(f"[feed] flow: {feed['flow']!r} is a gas volume at normal or standard conditions, but the "
-                         "feed of a stripper is a liquid: give a molar, mass or volume flow (kmol/h, kg/h, m3/h)")
-    word = "solvent" if mode == "absorb" else "stripping_gas"
-    molar: dict[str, float | None] = {}
-    sources = [data.get("solute"), (data.get("economics") or {}).get("solute_molar_mass")
-               if isinstance(data.get("economics"), dict) else None]
-    for source in sources:
-        if isinstance(source, dict):
-            for name, item in source.items():
-                raw = item.get("molar_mass") if isinstance(item, dict) else item
-                molar.setdefault(name, _quiet_si(raw, "kg/mol", basis))
-
-    def liquid_of(table) -> conc.Liquid:
-        return conc.Liquid(_quiet_si(table.get("molar_mass"), "kg/mol", basis),
-                           _quiet_si(table.get("density"), "kg/m^3", basis))
-
-    used: dict = {}
-    data = dict(data)
-    feed = data.get("feed")
-    if isinstance(feed, dict) and isinstance(feed.get("composition"), dict):
-        liquid = liquid_of(feed) if treated == "liquid" else None
-        converted = {}
-        for solute, value in feed["composition"].items():
-            converted[solute], unit = _read(value, treated, f"[feed] composition.{solute}", liquid,
-                                            molar.get(solute))
-            if unit:
-                used.setdefault(("treated", solute), unit)
-        data["feed"] = {**feed, "composition": converted}
-    specs = data.get("spec")
-    if isinstance(specs, list):
-        liquid = liquid_of(feed) if treated == "liquid" and isinstance(feed, dict) else None
-        out = []
-        for item in specs:
-            if isinstance(item, dict) and "outlet" in item:
-                solute = item.get("solute")
-                x, unit = _read(item["outlet"], treated, f"[[spec]] {solute!r} outlet", liquid,
-                                molar.get(solute) if isinstance(solute, str) else None)
-                if unit:
-                    used[("treated", solute)] = unit
-                item = {**item, "outlet": x}
-            out.append(item)
-        data["spec"] = out
-    agents = data.get(word)
-    if isinstance(agents, list):
-        phase = "liquid" if mode == "absorb" else "gas"
-        out = []
-        for a, agent in enumerate(agents):
-            if isinstance(agent, dict) and isinstance(agent.get("lean"), dict):
-                liquid = liquid_of(agent) if phase == "liquid" else None
-                label = agent.get("name") if isinstance(agent.get("name"), str) else f"#{a + 1}"
-                lean = {}
-                for solute, value in agent["lean"].items():
-                    lean[solute], unit = _read(value, phase, f"[[{word}]] {label[:40]!r} lean.{solute}", liquid,
-                                               molar.get(solute))
-                    if unit:
-                        used[("agent", a, solute)] = unit
-                agent = {**agent, "lean": lean}
-            out.append(agent)
-        data[word] = out
-    context = getattr(info, "context", None)
-    if isinstance(context, dict):
-        context["used"] = used
-    return data
-
-
-def _read(value, phase, where, liquid, molar_mass):
-    try:
-        return conc.parse(value, phase, what=where, liquid=liquid, solute_molar_mass=molar_mass)
-    except UnitError as exc:
-        raise ValueError(str(exc)) from None
+        return conc.display_for(self, self._used)

@@ -224,7 +224,8 @@ def to_si(value, unit: str, *, what: str = "value", basis: Basis | None = None, 
     number, text = _split(value, unit, what)
     if not text:
         if require_unit:
-            raise UnitError(f"{what}: {_short(value)} has no unit; write it with one, e.g. \"{number:g} {example or unit}\"")
+            raise UnitError(f"{what}: {_short(value)} has no unit; write it with one, "
+                            f"e.g. \"{number:g} {example or unit}\"")
         return number
     offset = 0.0
     if text in _ABSOLUTE:
