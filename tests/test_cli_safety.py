@@ -449,3 +449,44 @@ def test_help_states_the_exit_codes():
     text = run("optimize", "--help").stdout
     for code in ("0 done", "2 bad input", "3 no design", "4 evaluate", "70 internal", "130 interrupted"):
         assert code in " ".join(text.split()), code
+
+
+# --------------------------------------------------------------------------- found by the fuzzing
+
+
+@pytest.mark.parametrize("base, old, new, fragments", [
+    # a vapour pressure of 1e-20 kPa gives K ~ 1e-22: once a division by zero deep in the cascade
+    (ABSORBER, 'vapour_pressure = "4.887 kPa"', 'vapour_pressure = "4.887e-20 kPa"',
+     ["'light wash oil' k.toluene", "K at column conditions", "outside 1e-12 to 1e+12"]),
+    # a Henry's-law constant 1e20 times too large: once "HiGHS stopped with status Unknown"
+    (STRIPPER, "henry = 1.0e-3 ", "henry = 1.0e17 ", ["k.trichloroethylene", "K at column conditions"]),
+    # a stripping gas of 28,960 g/mol is denser than water: once a square root of a negative number
+    (STRIPPER, 'molar_mass = "28.96 g/mol"        # air, estimated', 'molar_mass = "28960 g/mol"',
+     ["no lighter than the liquid"]),
+    # half the feed toluene: the solvent in equilibrium would be more than pure solute
+    (ABSORBER, 'toluene = "500 ppmv"', 'toluene = "50 %"', ["more than all solute"]),
+])
+def test_cases_beyond_what_the_relations_compute_are_refused_before_evaluation(tmp_path, base, old, new, fragments):
+    path = variant(tmp_path, (old, new), base=base)
+    for command in (["optimize", path], ["curve", path, "--solvent", "light wash oil" if base == ABSORBER else
+                                          "air, carbon adsorption"]):
+        one_line(run(*command), 2, str(path), *fragments)
+
+
+@pytest.mark.parametrize("old, new", [
+    ("flood_fraction = 0.80", "flood_fraction = 8e-21"),      # once HiGHS stopped on costs near 1e21 USD/yr
+    ('life = "15 yr"', 'life = "15e-20 yr"'),                 # a capital recovery factor of 1e19 per year
+    ('pressure = "1.15 bara"', 'pressure = "1.15e-9 bara"'),  # once "shaft power must be > 0, got array(...)"
+])
+def test_allowed_ranges_keep_every_accepted_case_finite(tmp_path, old, new):
+    one_line(run("optimize", variant(tmp_path, (old, new))), 2, "must be at least")
+
+
+def test_readme_and_schema_state_the_same_unit_rule():
+    from towercost.scenario.editor import json_schema
+
+    readme = " ".join((ROOT / "README.md").read_text(encoding="utf-8").split())
+    assert "Every dimensional value carries its unit as text; a bare number there is refused" in readme
+    assert "a bare number there is refused" in json_schema()["description"]
+    for code in ("| 0 |", "| 2 |", "| 3 |", "| 4 |", "| 70 |", "| 130 |"):
+        assert code in readme, code

@@ -17,6 +17,7 @@ ranges (``towercost.scenario.editor``).
 from __future__ import annotations
 
 import math
+import re
 import typing
 from dataclasses import dataclass
 from functools import cached_property
@@ -218,6 +219,9 @@ def number(envelope: Envelope, *, schema: dict | None = None):
                 raise ValueError(f"must be a whole number, got {value!r}")
             return value
         if isinstance(value, str):
+            if not re.match(RATIO_PATTERN, value):
+                raise ValueError(f"must be a number (or a ratio of like units, '0.06 lb/lb', or a percentage, "
+                                 f"'80 %'), got {value!r}")
             try:
                 return to_si(value, "dimensionless")
             except UnitError as exc:

@@ -134,18 +134,29 @@ class Feed(_Table):
         if dim is None or dim == "[substance] / [time]":
             return data  # molar, a bare number, or text the field itself reports on
         basis = env._basis(info)
+        context = getattr(info, "context", None)
+        bare_si = isinstance(context, dict) and context.get("bare_si", False)
+
+        def side(name: str, unit: str, envelope) -> float:
+            """A value the conversion needs, read and range-checked as its own field would be."""
+            value = to_si(data[name], unit, what=name, basis=basis, require_unit=not bare_si, example=envelope.show)
+            try:
+                return envelope.check(value)
+            except ValueError as exc:
+                raise UnitError(f"{name} {exc}, got {data[name]!r}") from None
+
         if "molar_mass" not in data:
             raise ValueError(f"a mass or volume flow {raw!r} needs the feed molar_mass")
         try:
             if dim == "[mass] / [time]":
-                molar_mass = to_si(data["molar_mass"], "kg/mol", what="molar_mass", basis=basis)
+                molar_mass = side("molar_mass", "kg/mol", env.MOLAR_MASS)
                 value = to_si(raw, "kg/s", basis=basis) / molar_mass
             elif dim == "[length] ** 3 / [time]":
                 if "density" not in data:
                     raise ValueError(f"a volume flow {raw!r} needs the feed density (a liquid), or write a gas "
                                      "flow at normal or standard conditions (Nm3/h, scfm)")
-                density = to_si(data["density"], "kg/m^3", what="density", basis=basis)
-                molar_mass = to_si(data["molar_mass"], "kg/mol", what="molar_mass", basis=basis)
+                density = side("density", "kg/m^3", env.DENSITY)
+                molar_mass = side("molar_mass", "kg/mol", env.MOLAR_MASS)
                 value = to_si(raw, "m^3/s", basis=basis) * density / molar_mass
             else:
                 try:
