@@ -158,7 +158,7 @@ def mutation(draw, data: dict):
             if items:
                 items.append(copy.deepcopy(items[draw(st.integers(0, len(items) - 1))]))
     elif kind == "mode" and isinstance(data.get("case"), dict):
-        data["case"]["mode"] = {"absorb": "strip", "strip": "absorb"}.get(data["case"].get("mode"), "absorb")
+        data["case"]["mode"] = "strip" if data["case"].get("mode") == "absorb" else "absorb"
     elif kind == "deep":
         parent[key] = fz.deep(draw(st.sampled_from([3, 11, 13, 40, 200])))
     else:

@@ -323,10 +323,10 @@ def convert_raw(data: Any, basis: Basis) -> tuple[Any, dict]:
         out = []
         for item in specs:
             if isinstance(item, dict) and "outlet" in item:
-                solute = item.get("solute")
-                x, unit = _read(item["outlet"], treated, f"[[spec]] {solute!r} outlet", liquid,
-                                molar.get(solute) if isinstance(solute, str) else None)
-                if unit:
+                solute = item.get("solute") if isinstance(item.get("solute"), str) else None
+                x, unit = _read(item["outlet"], treated, f"[[spec]] {repr(solute)[:50]} outlet", liquid,
+                                molar.get(solute) if solute is not None else None)
+                if unit and solute is not None:
                     used[("treated", solute)] = unit
                 item = {**item, "outlet": x}
             out.append(item)
