@@ -473,6 +473,12 @@ def test_cases_beyond_what_the_relations_compute_are_refused_before_evaluation(t
         one_line(run(*command), 2, str(path), *fragments)
 
 
+def test_a_solute_the_feed_does_not_carry_is_refused(tmp_path):
+    # toluene = 0 in the feed once gave 0/0 in the minimum-rate relation (found by the fuzzing)
+    one_line(run("optimize", variant(tmp_path, ('toluene = "500 ppmv"', "toluene = 0.0"))), 2,
+             "[feed] composition.toluene", "above 0")
+
+
 @pytest.mark.parametrize("old, new", [
     ("flood_fraction = 0.80", "flood_fraction = 8e-21"),      # once HiGHS stopped on costs near 1e21 USD/yr
     ('life = "15 yr"', 'life = "15e-20 yr"'),                 # a capital recovery factor of 1e19 per year

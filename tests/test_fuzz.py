@@ -128,7 +128,7 @@ def mutation(draw, data: dict):
     parent, key = _parent(data, path), path[-1]
     value = parent[key]
     if kind == "replace":
-        parent[key] = draw(st.sampled_from(fz.HOSTILE_TEXT + fz.HOSTILE_NUMBERS + fz.HOSTILE_OTHER))
+        parent[key] = copy.deepcopy(draw(st.sampled_from(fz.HOSTILE_TEXT + fz.HOSTILE_NUMBERS + fz.HOSTILE_OTHER)))
     elif kind == "scale":
         power = draw(st.integers(-400, 400))
         if isinstance(value, str):

@@ -55,13 +55,14 @@ ALL_UNITS = tuple(dict.fromkeys([*GAS, *LIQUID_MASS, *LIQUID_VOLUME, *LIQUID_MOL
 LIQUID_WORDS = "a mole fraction, ppmw, ppbw, mg/kg, ug/kg, wt%, mol%, g/L, mg/L or ug/L"
 
 
-def json_schema() -> dict:
-    """The JSON Schema of a concentration: a mole fraction in [0, 1), or text in a unit of either phase."""
+def json_schema(positive: bool = False) -> dict:
+    """The JSON Schema of a concentration: a mole fraction in [0, 1) ((0, 1) if ``positive``), or text in a unit."""
     units = "|".join(re.escape(u) for u in ALL_UNITS)
     words = (f"a concentration: a mole fraction in [0, 1); or in a gas {GAS_WORDS.removeprefix('a mole fraction, ')}; "
              f"or in a liquid {LIQUID_WORDS.removeprefix('a mole fraction, ')} (by mass: needs the solute's molar "
              "mass in [solute.<name>])")
-    return {"anyOf": [{"type": "number", "minimum": 0, "exclusiveMaximum": 1},
+    low = {"exclusiveMinimum": 0} if positive else {"minimum": 0}
+    return {"anyOf": [{"type": "number", **low, "exclusiveMaximum": 1},
                       {"type": "string", "pattern": rf"^\s*[+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*({units})?\s*$"}],
             "description": words, "x-description": words, "x-dimension": "a concentration",
             "examples": ["20 ppmv", "5 ug/L"]}

@@ -284,6 +284,8 @@ K_VALUE = E("K = y/x at column conditions", "", "", 1e-12, 1e12, usual=(1e-5, 1e
 HENRY = E("Henry's-law constant in the units of its scale", "", "", 1e-30, 1e30, low_open=True)
 ACTIVITY = E("infinite-dilution activity coefficient", "", "", 1e-6, 1e8, usual=(0.1, 1e5))
 MOLE_FRACTION = E("mole fraction", "", "", 0.0, 1.0, high_open=True)
+FEED_FRACTION = E("solute mole fraction in the feed (a solute the feed does not carry is left out)", "", "", 0.0,
+                  1.0, low_open=True, high_open=True)
 REMOVAL = E("fraction of the entering solute removed", "", "", 0.0, 1.0, low_open=True, high_open=True)
 EFFICIENCY = E("overall tray efficiency", "", "", 0.01, 1.0, usual=(0.1, 1.0))
 MURPHREE = E("Murphree vapour efficiency", "", "", 0.01, 1.0, usual=(0.2, 1.0))

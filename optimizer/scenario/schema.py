@@ -81,6 +81,7 @@ Notes = Annotated[str, Field(max_length=MAX_NOTES), _printable(True)]
 
 MoleFraction = number(env.MOLE_FRACTION)
 Concentration = number(env.MOLE_FRACTION, schema=conc.json_schema())
+FeedConcentration = number(env.FEED_FRACTION, schema=conc.json_schema(positive=True))
 Temperature = quantity(env.COLUMN_TEMPERATURE)
 Pressure = quantity(env.COLUMN_PRESSURE, gauge_or_absolute=True)
 MolarMass = quantity(env.MOLAR_MASS)
@@ -116,7 +117,7 @@ class Feed(_Table):
     temperature: Annotated[Temperature, _described("column temperature (isothermal)")]  # [K]
     pressure: Annotated[Pressure, _described("pressure at the column (absolute, or gauge as barg/psig)")]  # [Pa]
     molar_mass: Annotated[MolarMass, _described("molar mass of the carrier gas or liquid")]  # [kg/mol]
-    composition: dict[Annotated[str, Field(min_length=1, max_length=MAX_NAME)], Concentration] = Field(
+    composition: dict[Annotated[str, Field(min_length=1, max_length=MAX_NAME)], FeedConcentration] = Field(
         max_length=MAX_SOLUTES, description="solute concentrations in the feed: a gas by volume (ppmv, ppbv, %), "
         "a liquid by mass or per volume (ppmw, mg/L, ug/L) or a mole fraction")
     density: Annotated[Density | None, _described("liquid feed only")] = None  # [kg/m3]
