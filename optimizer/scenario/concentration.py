@@ -61,7 +61,7 @@ def json_schema(positive: bool = False) -> dict:
     words = (f"a concentration: a mole fraction in [0, 1); or in a gas {GAS_WORDS.removeprefix('a mole fraction, ')}; "
              f"or in a liquid {LIQUID_WORDS.removeprefix('a mole fraction, ')} (by mass: needs the solute's molar "
              "mass in [solute.<name>])")
-    low = {"exclusiveMinimum": 0} if positive else {"minimum": 0}
+    low = {"minimum": 1e-15} if positive else {"minimum": 0}
     return {"anyOf": [{"type": "number", **low, "exclusiveMaximum": 1},
                       {"type": "string", "pattern": rf"^\s*[+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*({units})?\s*$"}],
             "description": words, "x-description": words, "x-dimension": "a concentration",

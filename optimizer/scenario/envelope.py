@@ -52,6 +52,7 @@ class Envelope:
     zero_unused: bool = False          # 0 means "not used": no usual-range warning for it
     integer: bool = False
     example: float | None = None       # a typical value, in ``show`` units, for hints and the schema
+    least_nonzero: float | None = None  # a value other than 0 must be at least this (no vanishing magnitudes)
 
     # ----------------------------------------------------------- bounds in SI
 
@@ -98,6 +99,8 @@ class Envelope:
         above = value >= high if self.high_open else value > high
         if not math.isfinite(value) or below or above:
             raise ValueError(f"must be {self.allowed()}")
+        if self.least_nonzero is not None and 0 < abs(value) < self.least_nonzero:
+            raise ValueError(f"must be 0 or at least {self.least_nonzero:g}")
         return value
 
     def unusual(self, value: float) -> bool:
@@ -283,9 +286,9 @@ STEAM_RATIO = E("regeneration steam per kg of agent circulated [kg/kg]", "", "",
 K_VALUE = E("K = y/x at column conditions", "", "", 1e-12, 1e12, usual=(1e-5, 1e5))
 HENRY = E("Henry's-law constant in the units of its scale", "", "", 1e-30, 1e30, low_open=True)
 ACTIVITY = E("infinite-dilution activity coefficient", "", "", 1e-6, 1e8, usual=(0.1, 1e5))
-MOLE_FRACTION = E("mole fraction", "", "", 0.0, 1.0, high_open=True)
-FEED_FRACTION = E("solute mole fraction in the feed (a solute the feed does not carry is left out)", "", "", 0.0,
-                  1.0, low_open=True, high_open=True)
+MOLE_FRACTION = E("mole fraction (0, or at least 1e-15)", "", "", 0.0, 1.0, high_open=True, least_nonzero=1e-15)
+FEED_FRACTION = E("solute mole fraction in the feed (a solute the feed does not carry is left out)", "", "", 1e-15,
+                  1.0, high_open=True)
 REMOVAL = E("fraction of the entering solute removed", "", "", 0.0, 1.0, low_open=True, high_open=True)
 EFFICIENCY = E("overall tray efficiency", "", "", 0.01, 1.0, usual=(0.1, 1.0))
 MURPHREE = E("Murphree vapour efficiency", "", "", 0.01, 1.0, usual=(0.2, 1.0))
