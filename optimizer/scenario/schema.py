@@ -38,7 +38,8 @@ import math
 import unicodedata
 from typing import Annotated, Any, Literal
 
-from pydantic import AfterValidator, BaseModel, ConfigDict, Field, PrivateAttr, field_validator, model_validator
+from pydantic import (AfterValidator, BaseModel, ConfigDict, Field, PrivateAttr, StrictBool, field_validator,
+                      model_validator)
 
 from towercost.models import defaults
 from towercost.models.equilibrium import HENRY_SCALES
@@ -245,7 +246,7 @@ class Agent(_Table):
     surface_tension: Annotated[SurfaceTension | None, _described("liquid solvents")] = None  # [N/m]
     price: Annotated[Price, _described("fresh agent")] = 0.0  # [USD/kg]
     disposal: Annotated[Price, _described("to dispose of or treat the spent agent")] = 0.0  # [USD/kg]
-    regenerated: bool = Field(False, description="true: circulated through a regenerator, only losses made up")
+    regenerated: StrictBool = Field(False, description="true: circulated through a regenerator, only losses made up")
     loss: number(env.LOSS) = 0.0
     lean: dict[Annotated[str, Field(min_length=1, max_length=MAX_NAME)], Concentration] = Field(
         {}, max_length=MAX_SOLUTES, description="solute concentrations in the agent entering the column (units of "
