@@ -163,8 +163,8 @@ def _checked(scenario, path: Path, agent: str | None = None):
     from towercost.errors import ScenarioError
 
     def check():
-        case = prepare(scenario)
         try:
+            case = prepare(scenario)
             check_case(case, None if agent is None else [agent_index(case, agent)])
         except ScenarioError as exc:
             raise type(exc)(f"{path}, {exc}" if str(exc).startswith("[") else f"{path}: {exc}") from None

@@ -473,6 +473,12 @@ def test_cases_beyond_what_the_relations_compute_are_refused_before_evaluation(t
         one_line(run(*command), 2, str(path), *fragments)
 
 
+def test_a_cost_year_outside_the_table_names_the_file(tmp_path):
+    # found by the fuzzing: the refusal from preparing the case once lacked the file's name
+    path = variant(tmp_path, ("cost_year = 2024", "cost_year = 2034"))
+    one_line(run("optimize", path), 2, f"error: {path}, [economics] cost_year", "1994 to 2024")
+
+
 def test_a_solute_the_feed_does_not_carry_is_refused(tmp_path):
     # toluene = 0 in the feed once gave 0/0 in the minimum-rate relation (found by the fuzzing)
     one_line(run("optimize", variant(tmp_path, ('toluene = "500 ppmv"', "toluene = 0.0"))), 2,
