@@ -4,7 +4,7 @@ VENV   := .venv
 BIN    := $(VENV)/bin
 STAMP  := $(VENV)/.installed
 
-.PHONY: demo test bench report-check clean
+.PHONY: demo test fuzz bench report-check clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -23,6 +23,11 @@ test: $(STAMP)
 # The demo's HTML report in a real headless Chromium; its first screen saved to reports/ for a person to look at.
 report-check: $(STAMP)
 	$(BIN)/python tests/report_check.py
+
+# At least 10^4 hostile inputs (corrupted demos, generated scenarios, bad command arguments); the last
+# line gives the count and the time. `make test` runs a few hundred of the same cases.
+fuzz: $(STAMP)
+	TOWERCOST_FUZZ=full $(BIN)/python -m pytest -q -s -p no:cacheprovider tests/test_fuzz.py
 
 bench: $(STAMP)
 	$(BIN)/python benchmarks/run.py

@@ -47,11 +47,16 @@ def load(path):
     return load_scenario(path)
 
 
-def from_dict(data: dict, name: str = "scenario"):
-    """Validate a scenario given as a dict with the layout of the TOML file."""
+def from_dict(data: dict, name: str = "scenario", *, bare_si: bool = False):
+    """Validate a scenario given as a dict with the layout of the TOML file.
+
+    Values carry their units as in a file; ``bare_si=True`` takes a bare
+    number in a dimensional field to be in SI (for programs that build
+    scenarios in SI).
+    """
     from towercost.scenario import parse_scenario
 
-    return parse_scenario(data, name)
+    return parse_scenario(data, name, bare_si=bare_si)
 
 
 def optimize(scenario, *, top: int = 10, method: str = "model", distinct: str = "trays"):

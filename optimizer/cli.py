@@ -1,27 +1,92 @@
 """towercost commands: parse, call the API, print. Nothing else lives here.
 
-Exit codes: 0 done; 2 bad input (one line naming the field, the value and
-what is allowed); 3 no design meets the spec within the limits; 70 internal
-error (one line; the details go to a log file in the output folder).
+Exit codes (``towercost.errors``): 0 done; 2 bad input (one line naming the
+field or option, the value and what is allowed; a usage error is one line
+too); 3 no design meets the spec within the limits (for each candidate, the
+limit and the best figure reached); 4 ``evaluate`` of a design that misses a
+spec or breaks a limit (the sheet is printed, the line names which); 70
+internal error (one line; the details go to a log file); 130 interrupted
+(Ctrl-C: no partial file is left).
 """
 
 from __future__ import annotations
 
 import json
 import math
+import sys
+import warnings
 from enum import Enum
 from pathlib import Path
 from typing import Optional
 
 import typer
+from typer.core import TyperGroup
 
-from towercost.errors import BAD_INPUT, INFEASIBLE, INTERNAL
+from towercost.errors import BAD_INPUT, INFEASIBLE, INTERNAL, INTERRUPTED, MISSES
+
+EXIT_CODES = ("Exit codes: 0 done; 2 bad input (one line naming it); 3 no design meets the spec within the "
+              "limits; 4 evaluate: the design misses a spec or breaks a limit; 70 internal error (details in a "
+              "log file); 130 interrupted.")
+
+#: Largest tray count an option may name (the scenario's own bound).
+MAX_TRAYS = 1000
+
+
+def _one_line(text: str, limit: int = 600) -> str:
+    line = " ".join(str(text).split())
+    return line if len(line) <= limit else line[:limit - 3] + "..."
+
+
+class OneLineGroup(TyperGroup):
+    """The command group: usage errors as one line, Ctrl-C as exit 130, warnings never printed.
+
+    A RuntimeWarning (an overflow or a division by zero inside the numbers)
+    is an internal error, exit 70, as it is in the tests; other warnings are
+    not printed.
+    """
+
+    def main(self, args=None, prog_name=None, complete_var=None, standalone_mode=True, **extra):
+        from typer import _click as click
+        from typer.exceptions import Abort
+
+        code = 0
+        try:
+            with warnings.catch_warnings():
+                warnings.simplefilter("ignore")
+                warnings.simplefilter("error", RuntimeWarning)
+                code = super().main(args=args, prog_name=prog_name, complete_var=complete_var,
+                                    standalone_mode=False, **extra) or 0
+        except click.exceptions.NoArgsIsHelpError as exc:
+            typer.echo(exc.format_message())
+            typer.echo("error: towercost: give a command; see 'towercost --help'", err=True)
+            code = BAD_INPUT
+        except click.exceptions.UsageError as exc:
+            where = exc.ctx.command_path if exc.ctx is not None else "towercost"
+            typer.echo(f"error: {where}: {_one_line(exc.format_message()).rstrip('.')}; see '{where} --help'",
+                       err=True)
+            code = BAD_INPUT
+        except click.exceptions.ClickException as exc:
+            typer.echo(f"error: {_one_line(exc.format_message())}", err=True)
+            code = exc.exit_code
+        except (Abort, KeyboardInterrupt):
+            code = INTERRUPTED
+        except Exception as exc:  # noqa: BLE001 - a bug outside the commands' own handling
+            code = _internal_code(exc, DEFAULT_OUT)
+        if code == INTERRUPTED:
+            typer.echo("error: interrupted; no partial file was left", err=True)
+        if not isinstance(code, int):
+            code = 0
+        if standalone_mode:
+            sys.exit(code)
+        return code
+
 
 app = typer.Typer(
+    cls=OneLineGroup,
     add_completion=False,
     no_args_is_help=True,
     pretty_exceptions_enable=False,
-    help="Least-annualized-cost design of dilute absorbers and strippers (tray columns).",
+    help="Least-annualized-cost design of dilute absorbers and strippers (tray columns). " + EXIT_CODES,
 )
 
 #: Where an internal error's details are written when a command has no output folder of its own.
@@ -59,28 +124,33 @@ def _main(version: bool = typer.Option(False, "--version", callback=_version, is
 
 
 def _fail(message: str, code: int = BAD_INPUT) -> None:
-    typer.echo(f"error: {message}", err=True)
+    typer.echo(f"error: {_one_line(message, 1200)}", err=True)
     raise typer.Exit(code)
 
 
-def _internal(exc: BaseException, out: Path) -> None:
-    """An unexpected exception: one line, and the traceback in a new log file in ``out``."""
+def _internal_code(exc: BaseException, out: Path) -> int:
+    """An unexpected exception: one line on standard error, the traceback in a new log file; the exit code."""
     import datetime
+    import tempfile
     import traceback
 
     stamp = datetime.datetime.now().strftime("%Y%m%d-%H%M%S-%f")
     detail = "".join(traceback.format_exception(exc))
-    where = "not written"
-    try:
-        out.mkdir(parents=True, exist_ok=True)
-        log = out / f"towercost-internal-error-{stamp}.log"
-        with open(log, "x", encoding="utf-8") as handle:
-            handle.write(detail)
-        where = str(log)
-    except OSError:
-        pass
-    _fail(f"internal error ({type(exc).__name__}: {exc}); this is a bug in towercost, not in the input; "
-          f"details: {where}", INTERNAL)
+    where = "not written (no writable folder)"
+    for folder in (out, Path(tempfile.gettempdir())):
+        try:
+            folder.mkdir(parents=True, exist_ok=True)
+            log = folder / f"towercost-internal-error-{stamp}.log"
+            with open(log, "x", encoding="utf-8") as handle:
+                handle.write(detail)
+            where = str(log)
+            break
+        except OSError:
+            continue
+    text = _one_line(f"{type(exc).__name__}: {exc}", 200)
+    typer.echo(f"error: internal error ({text}); this is a bug in towercost, not in the input; details: {where}",
+               err=True)
+    return INTERNAL
 
 
 def _run(call, out: Path = DEFAULT_OUT):
@@ -97,7 +167,7 @@ def _run(call, out: Path = DEFAULT_OUT):
     except typer.Exit:
         raise
     except Exception as exc:  # noqa: BLE001 - anything else is a bug, said as one
-        _internal(exc, out)
+        raise typer.Exit(_internal_code(exc, out)) from None
 
 
 def _load(path: Path):
@@ -106,15 +176,79 @@ def _load(path: Path):
     return _run(lambda: load_scenario(path))
 
 
+def _checked(scenario, path: Path, agent: str | None = None):
+    """Before any evaluation: every candidate computable and the design space within memory (one line if not)."""
+    from towercost.design.case import agent_index, prepare
+    from towercost.design.reasons import check_case
+    from towercost.errors import ScenarioError
+
+    def check():
+        try:
+            case = prepare(scenario)
+            check_case(case, None if agent is None else [agent_index(case, agent)])
+        except ScenarioError as exc:
+            raise type(exc)(f"{path}, {exc}" if str(exc).startswith("[") else f"{path}: {exc}") from None
+        return case
+
+    return _run(check)
+
+
+class _Working:
+    """A spinner on a terminal's standard error once a step with no bar of its own passes about a second."""
+
+    def __init__(self, label: str, delay: float = 1.0):
+        import threading
+
+        self.label, self.delay = label, delay
+        self.lock = threading.Lock()
+        self.status = None
+        self.stopped = False
+        self.timer = threading.Timer(delay, self._start)
+        self.timer.daemon = True
+
+    def _start(self) -> None:
+        with self.lock:
+            if self.stopped:
+                return
+            from rich.console import Console
+
+            self.status = Console(stderr=True).status(self.label)
+            self.status.start()
+
+    def start(self) -> "_Working":
+        if sys.stderr.isatty():
+            self.timer.start()
+        return self
+
+    def stop(self) -> None:
+        with self.lock:
+            self.stopped = True
+            self.timer.cancel()
+            if self.status is not None:
+                self.status.stop()
+                self.status = None
+
+    def __enter__(self):
+        return self.start()
+
+    def __exit__(self, *exc) -> None:
+        self.stop()
+
+
 def _progress(what: str = "evaluating alternatives"):
-    """A progress callback for long runs: a rich bar on stderr once a run passes about a second."""
+    """A progress callback for long runs: a rich bar on stderr once a run passes about a second, then a
+    spinner while the selection and the exact re-evaluation run (``update.finish()`` ends it)."""
     import time
 
-    state: dict = {"start": time.perf_counter(), "bar": None}
+    state: dict = {"start": time.perf_counter(), "bar": None, "after": None}
 
     def update(done: int, total: int) -> None:
+        if state["bar"] is False:   # the bar has run and stopped; later unit spaces go unshown
+            return
         if state["bar"] is None:
             if time.perf_counter() - state["start"] < 1.0 or done >= total:
+                if done >= total and state["after"] is None:
+                    state["after"] = _Working("selecting and re-evaluating the best designs").start()
                 return
             from rich.console import Console
             from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
@@ -127,7 +261,15 @@ def _progress(what: str = "evaluating alternatives"):
         bar.update(state["task"], completed=done, total=total)
         if done >= total:
             bar.stop()
+            state["bar"] = False
+            if state["after"] is None:
+                state["after"] = _Working("selecting and re-evaluating the best designs").start()
 
+    def finish() -> None:
+        if state["after"] is not None:
+            state["after"].stop()
+
+    update.finish = finish
     return update
 
 
@@ -165,11 +307,11 @@ def rate(
     absorb = mode is Mode.absorb
     gas_in = (1e-3 if absorb else 0.0) if gas_in is None else gas_in
     liquid_in = (0.0 if absorb else 1e-3) if liquid_in is None else liquid_in
-    _check("--stages", stages, 0.0, math.inf, "a number >= 0", low_open=False)
-    _check("--factor", factor, 0.0, math.inf, "a number > 0")
-    _check("--liquid", liquid, 0.0, math.inf, "a flow > 0")
-    _check("--gas", gas, 0.0, math.inf, "a flow > 0")
-    _check("--k-value", k_value, 0.0, math.inf, "a number > 0")
+    _check("--stages", stages, 0.0, 1e4, "a number >= 0 and at most 10000", low_open=False, high_open=False)
+    _check("--factor", factor, 0.0, 1e6, "a number > 0 and at most 1e6", high_open=False)
+    _check("--liquid", liquid, 0.0, 1e12, "a flow > 0 and at most 1e12", high_open=False)
+    _check("--gas", gas, 0.0, 1e12, "a flow > 0 and at most 1e12", high_open=False)
+    _check("--k-value", k_value, 0.0, 1e12, "a number > 0 and at most 1e12", high_open=False)
     _check("--gas-in", gas_in, 0.0, 1.0, "a mole fraction in [0, 1)", low_open=False)
     _check("--liquid-in", liquid_in, 0.0, 1.0, "a mole fraction in [0, 1)", low_open=False)
     _check("--target-remaining", target_remaining, 0.0, 1.0, "a fraction in (0, 1)")
@@ -178,6 +320,8 @@ def rate(
         _fail(f"{'--gas-in' if absorb else '--liquid-in'} must be > 0 for the treated stream, got 0")
     if factor is None and None not in (liquid, gas, k_value):
         factor = liquid / (k_value * gas) if absorb else k_value * gas / liquid
+        if not (math.isfinite(factor) and 1e-12 <= factor <= 1e6):
+            _fail(f"--liquid, --gas and --k-value give a factor of {factor:g}; it must lie in [1e-12, 1e6]")
     elif factor is not None and (liquid is not None or gas is not None):
         _fail("give --factor or the flows (--liquid, --gas with --k-value), not both")
     other_in = liquid_in if absorb else gas_in
@@ -246,21 +390,42 @@ def _design(data, design: str):
     return _run(lambda: ids.parse(design, [a.name for a in data.agents]))
 
 
-@app.command()
+def _misses(case, designs) -> str | None:
+    """Which specs and limits design 0 does not meet, with its figure against each; None if it meets all."""
+    from towercost.report.terminal import concentration_text
+
+    parts = []
+    for limit in designs.limits or []:
+        if bool(limit.met[0]):
+            continue
+        if limit.is_spec:
+            s = int(limit.name.removeprefix("spec_"))
+            parts.append(f"{case.solutes[s]} leaves at {concentration_text(case, s, float(designs.outlet[0, s]))} "
+                         f"(spec {concentration_text(case, s, float(case.target[s]))})")
+            continue
+        value = float(limit.values[0])
+        if limit.name == "ratio_low":
+            value = -value
+        parts.append(f"{limit.label} is broken ({value:.4g} {limit.unit})".replace(" )", ")"))
+    return "; ".join(parts) or None
+
+
+@app.command(epilog=EXIT_CODES)
 def evaluate(
     scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
     design: Optional[str] = typer.Option(None, "--design", help="A design identifier from a ranking (reproduces "
                                          "that design exactly); replaces --solvent, --trays, --rate/--ratio and "
                                          "--diameter."),
     solvent: Optional[str] = typer.Option(None, "--solvent", help="Candidate name (solvent, or stripping gas)."),
-    trays: Optional[int] = typer.Option(None, "--trays", help="Real trays."),
+    trays: Optional[int] = typer.Option(None, "--trays", help=f"Real trays, 1 to {MAX_TRAYS}."),
     ratio: Optional[float] = typer.Option(None, "--ratio", help="Agent rate as a multiple of the minimum (L/Lmin or G/Gmin)."),
-    rate_: Optional[str] = typer.Option(None, "--rate", help="Agent molar rate, e.g. '95 kmol/h' (bare number: mol/s)."),
+    rate_: Optional[str] = typer.Option(None, "--rate", help="Agent molar rate with its unit, e.g. '95 kmol/h' or "
+                                        "'2000 Nm3/h'."),
     diameter: Optional[str] = typer.Option(None, "--diameter", help="Shell inside diameter, e.g. '2.286' (m) or "
                                            "'90 in'; default: the least standard size."),
     as_json: bool = typer.Option(False, "--json", help="Print one JSON object."),
 ) -> None:
-    """Evaluate one design exactly and print its design sheet."""
+    """Evaluate one design exactly and print its design sheet (exit 4 if it misses a spec or breaks a limit)."""
     from towercost.report import ratios, records, terminal
     from towercost.scenario.units import UnitError, to_si
     from towercost.select import ranking
@@ -277,19 +442,26 @@ def evaluate(
     else:
         if solvent is None or trays is None:
             _fail("give --design ID, or --solvent and --trays with --ratio or --rate")
-        if trays < 1:
-            _fail(f"--trays must be a whole number >= 1, got {trays}")
+        if not 1 <= trays <= MAX_TRAYS:
+            _fail(f"--trays must be a whole number from 1 to {MAX_TRAYS}, got {trays}")
         if (ratio is None) == (rate_ is None):
             _fail("give exactly one of --ratio and --rate")
-        _check("--ratio", ratio, 0.0, math.inf, "a number > 0")
+        _check("--ratio", ratio, 0.0, 1000.0, "a number > 0 and at most 1000", high_open=False)
+        from towercost.scenario.units import is_gas_volume
+
+        if rate_ is not None and data.case.mode == "absorb" and is_gas_volume(rate_):
+            _fail(f"--rate {rate_!r} is a gas volume at normal or standard conditions, but the solvent is a liquid: "
+                  "give a molar rate (kmol/h, lbmol/h)")
         if rate_ is not None:
             try:
-                molar = to_si(rate_, "mol/s", what="--rate")
+                molar = to_si(rate_, "mol/s", what="--rate", basis=data.units.basis(), require_unit=True,
+                              example="kmol/h")
             except UnitError as exc:
                 _fail(str(exc))
-            if not (math.isfinite(molar) and molar > 0):
-                _fail(f"--rate must be a flow > 0, got {rate_!r}")
+            if not (math.isfinite(molar) and 0 < molar <= 1e7 / 3.6):
+                _fail(f"--rate must be a flow > 0 and at most 1e7 kmol/h, got {rate_!r}")
         shell = _length(diameter, "--diameter")
+    _checked(data, scenario, solvent)
     case, designs, warnings = _run(lambda: ranking.evaluate_design(data, solvent, trays, ratio=ratio, rate=molar,
                                                                    diameter=shell))
     note = _run(lambda: ratios.miss_note(case, designs, ratio))
@@ -299,8 +471,11 @@ def evaluate(
                       economics=records.economics_record(case), tool=records.tool_record(),
                       caution=records.CAUTION)
         typer.echo(records.to_json(record))
-        return
-    terminal.print_design(terminal.console(), case, designs, warnings, f"{data.case.name}: design sheet", note)
+    else:
+        terminal.print_design(terminal.console(), case, designs, warnings, f"{data.case.name}: design sheet", note)
+    missed = _misses(case, designs)
+    if missed:
+        _fail(f"the design misses: {missed}", MISSES)
 
 
 @app.command()
@@ -317,6 +492,7 @@ def equipment(
     from towercost.select import ranking
 
     data = _load(scenario)
+    _checked(data, scenario)
     if out is not None and out.suffix.lower() not in eq.FORMATS:
         _fail(f"--out {out}: the equipment list is written as .csv, .xlsx or .json (by the file's extension)")
     if design is None:
@@ -337,7 +513,16 @@ def equipment(
 # --------------------------------------------------------------------------- optimize, curve, schema
 
 
-@app.command()
+def _timeless(record: dict) -> dict:
+    """The record with its timing figures set to null, so that identical input gives identical bytes."""
+    solver = dict(record.get("solver", {}))
+    for key in solver:
+        if key.endswith("_seconds"):
+            solver[key] = None
+    return {**record, "solver": solver}
+
+
+@app.command(epilog=EXIT_CODES)
 def optimize(
     scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
     top: int = typer.Option(10, "--top", min=1, max=200, help="How many distinct designs to rank."),
@@ -351,8 +536,10 @@ def optimize(
     equipment_file: Optional[Path] = typer.Option(None, "--equipment", help="Write the equipment list of every "
                                                   "ranked design to this file (.csv, .xlsx or .json)."),
     out: Path = typer.Option(DEFAULT_OUT, "--out", help="Output folder for --csv and --save."),
-    force: bool = typer.Option(False, "--force", help="Replace files that already exist."),
+    force: bool = typer.Option(False, "--force", help="Replace files that already exist (regular files only)."),
     verbose: bool = typer.Option(False, "--verbose", help="Also print the solver's diagnostics and timings."),
+    timings: bool = typer.Option(False, "--timings", help="Keep the run's timings in the JSON (else left out, so "
+                                 "that identical input gives identical files)."),
 ) -> None:
     """Rank the designs of least total annualized cost: solvent, rate, trays and diameter."""
     from towercost.report import equipment as eq
@@ -363,18 +550,26 @@ def optimize(
     if equipment_file is not None and equipment_file.suffix.lower() not in eq.FORMATS:
         _fail(f"--equipment {equipment_file}: the equipment list is written as .csv, .xlsx or .json "
               "(by the file's extension)")
-    result = _run(lambda: ranking.optimize(data, top=top, method=method.value, distinct=distinct.value,
-                                           progress=_progress()), out)
-    record = records.result_record(result, verbose=verbose) if as_json else None
-    written = []
-    stem = scenario.stem
+    stem = scenario.stem or "scenario"
+    targets = ([out / f"{stem}-designs.csv"] if csv else []) + ([out / f"{stem}-report.json"] if save else [])
+    targets += [equipment_file] if equipment_file is not None else []
+    _run(lambda: files.check_targets(targets, force=force))   # every target before any work
+    _checked(data, scenario)
+    progress = _progress()
+    try:
+        result = _run(lambda: ranking.optimize(data, top=top, method=method.value, distinct=distinct.value,
+                                               progress=progress), out)
+    finally:
+        progress.finish()
+    record = records.result_record(result, verbose=verbose or timings) if as_json else None
+    texts = []
     if csv:
-        text = eq.csv_text(records.alternatives_frame(result).to_dict("records"))
-        written.append(_run(lambda: files.write_new(out / f"{stem}-designs.csv", text, force=force), out))
+        texts.append((out / f"{stem}-designs.csv", eq.csv_text(records.alternatives_frame(result).to_dict("records"))))
     if save:
-        saved = records.saved_report(records.result_record(result, verbose=True))
-        written.append(_run(lambda: files.write_new(out / f"{stem}-report.json", records.to_json(saved),
-                                                    force=force), out))
+        # the saved report carries the run's date; its timings and diagnostics only with --timings or --verbose
+        saved = records.saved_report(records.result_record(result, verbose=verbose or timings))
+        texts.append((out / f"{stem}-report.json", records.to_json(saved) + "\n"))
+    written = _run(lambda: files.write_all(texts, force=force), out) if texts else []
     if equipment_file is not None:
         rows = eq.ranked_rows(result)
         written.append(_run(lambda: eq.write_table(equipment_file, rows, force=force), out))
@@ -387,7 +582,7 @@ def optimize(
             console.print(f"wrote {path}", markup=False, highlight=False)
 
 
-@app.command()
+@app.command(epilog=EXIT_CODES)
 def curve(
     scenario: Path = typer.Argument(..., help="Scenario file (TOML)."),
     solvent: str = typer.Option(..., "--solvent", help="Candidate name (solvent, or stripping gas)."),
@@ -403,8 +598,15 @@ def curve(
     data = _load(scenario)
     if plot is not None and plot.suffix.lower() not in (".png", ".svg"):
         _fail(f"--plot {plot}: a plot is written as .png or .svg (by the file's extension)")
-    result = _run(lambda: ranking.cost_curve(data, solvent))
-    terminal.print_curve(terminal.console(), result)
+    _checked(data, scenario, solvent)
+    with _Working("evaluating the alternatives of one candidate"):
+        result = _run(lambda: ranking.cost_curve(data, solvent))
+    console = terminal.console()
+    terminal.print_curve(console, result)
+    if data.warnings:
+        console.print("Warnings", style="bold")
+        for line in data.warnings:
+            console.print(f"  - {line}", markup=False, highlight=False)
     if plot is not None:
         from towercost.report import files, plots
 
@@ -534,13 +736,15 @@ def batch(
 @app.command()
 def schema(
     out: Optional[Path] = typer.Option(None, "--out", help="Write to this file instead of printing."),
-    force: bool = typer.Option(False, "--force", help="Replace the file if it exists."),
+    force: bool = typer.Option(False, "--force", help="Replace the file if it exists (a regular file only)."),
 ) -> None:
-    """The JSON Schema of scenario files, for editors that validate TOML."""
+    """The JSON Schema (draft 2020-12) of scenario files, for editors that validate TOML."""
     from towercost.report import files
-    from towercost.scenario.schema import Scenario
+    from towercost.scenario.editor import json_text
 
-    text = json.dumps(Scenario.model_json_schema(), indent=2)
+    if out is not None:
+        _run(lambda: files.check_target(out, force=force))
+    text = json_text()
     if out is None:
         typer.echo(text)
     else:

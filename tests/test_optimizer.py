@@ -50,7 +50,7 @@ SPEC_SLACK = 1e-9
 
 def space_of(data: dict) -> Space:
     """Validate a scenario dict and evaluate its whole design space, keeping every resource column."""
-    return build_space(prepare(parse_scenario(copy.deepcopy(data), "generated")), keep=RESOURCES)
+    return build_space(prepare(parse_scenario(copy.deepcopy(data), "generated", bare_si=True)), keep=RESOURCES)
 
 
 def model_solve(space: Space, top: int, *, reduce: bool = True):
@@ -446,7 +446,7 @@ def regression_runner_up_case() -> dict:
 def test_regression_model_runner_up_equals_scan():
     # Independent method: exhaustive enumeration, through the public API.
     # (Regression: once the 2nd and 3rd picks were dearer than the scan's.)
-    scenario = parse_scenario(regression_runner_up_case(), "regression")
+    scenario = parse_scenario(regression_runner_up_case(), "regression", bare_si=True)
     by_model = ranking.optimize(scenario, top=3, method="model")
     by_scan = ranking.optimize(scenario, top=3, method="scan")
     np.testing.assert_allclose(by_model.designs.annualized, by_scan.designs.annualized, rtol=1e-9, atol=0)
@@ -610,11 +610,11 @@ def test_every_returned_design_meets_spec_and_limits(optimized):
 
 def test_demo_absorber_limits_are_met_when_they_bite():
     raw = raw_scenario(ABSORBER)
-    free = ranking.optimize(parse_scenario(copy.deepcopy(raw)), top=1, method="scan").best
+    free = ranking.optimize(parse_scenario(copy.deepcopy(raw), bare_si=True), top=1, method="scan").best
     raw["economics"]["capital_budget"] = float(free.installed[0]) * 0.95
     raw["economics"]["max_power"] = float(free.electric_power[0]) * 1.05
     raw["column"]["max_height"] = float(free.height[0]) - 1.0
-    result = ranking.optimize(parse_scenario(raw), top=10, method="model")
+    result = ranking.optimize(parse_scenario(raw, bare_si=True), top=10, method="model")
     assert result.best.annualized[0] > free.annualized[0]
     assert_meets_spec_and_limits(result.case, result.designs)
 
@@ -632,11 +632,11 @@ def test_budget_a_hair_below_the_optimum_excludes_it_in_the_model_too():
 @pytest.mark.parametrize("method", ["scan", "model"])
 def test_diameter_limit_written_as_the_chosen_standard_size_keeps_it(method):
     raw = raw_scenario(STRIPPER)
-    free = ranking.optimize(parse_scenario(copy.deepcopy(raw)), top=1, method="scan").best
+    free = ranking.optimize(parse_scenario(copy.deepcopy(raw), bare_si=True), top=1, method="scan").best
     inches = round(float(free.diameter[0]) / 0.0254)
     assert inches % 6 == 0 and float(free.diameter[0]) == pytest.approx(inches * 0.0254, abs=1e-12)
     raw["column"]["max_diameter"] = f"{inches} in"        # e.g. "30 in": a standard 6-in step
-    limited = ranking.optimize(parse_scenario(raw), top=1, method=method).best
+    limited = ranking.optimize(parse_scenario(raw, bare_si=True), top=1, method=method).best
     assert limited.annualized[0] == pytest.approx(free.annualized[0], rel=1e-12)
     assert limited.within_limits[0]
 
@@ -656,7 +656,7 @@ def unreachable_toluene(solvents) -> dict:
 
 @pytest.mark.parametrize("method", ["model", "scan"])
 def test_unreachable_spec_says_even_at_max_trays(method):
-    scenario = parse_scenario(unreachable_toluene([2]), "unreachable")   # glycol ether: clean solvent
+    scenario = parse_scenario(unreachable_toluene([2]), "unreachable", bare_si=True)   # glycol ether: clean solvent
     with pytest.raises(InfeasibleSpec) as raised:
         ranking.optimize(scenario, method=method)
     message = str(raised.value)
@@ -668,7 +668,7 @@ def test_unreachable_spec_says_even_at_max_trays(method):
 def test_unreachable_spec_with_loaded_solvents(method):
     # Two oils enter loaded (lean toluene) so that no rate at all meets 1e-12:
     # their minimum rate is infinite and the reason must still be written.
-    scenario = parse_scenario(unreachable_toluene([0, 1, 2]), "unreachable")
+    scenario = parse_scenario(unreachable_toluene([0, 1, 2]), "unreachable", bare_si=True)
     with pytest.raises(InfeasibleSpec) as raised:
         ranking.optimize(scenario, method=method)
     assert "even at 3 trays" in str(raised.value)
@@ -680,7 +680,7 @@ def test_budget_below_every_design_names_the_limit(method):
     raw = raw_scenario(ABSORBER)
     raw["economics"]["capital_budget"] = "1000 USD"
     with pytest.raises(InfeasibleSpec) as raised:
-        ranking.optimize(parse_scenario(raw), method=method)
+        ranking.optimize(parse_scenario(raw, bare_si=True), method=method)
     message = str(raised.value)
     assert "installed cost at most 1000 USD" in message
     assert "above the limit" in message
@@ -690,7 +690,7 @@ def test_spec_already_met_by_feed_is_reported():
     data = one_solvent_absorber()
     data["spec"] = [{"solute": "toluene", "outlet": 2e-3}]     # feed holds 1e-3
     with pytest.raises((ScenarioError, InfeasibleSpec)) as raised:
-        ranking.optimize(parse_scenario(data), top=3)
+        ranking.optimize(parse_scenario(data, bare_si=True), top=3)
     assert "toluene" in str(raised.value)
 
 
@@ -700,7 +700,7 @@ def test_spec_already_met_by_feed_is_reported():
 
 
 def bounds_of(data: dict, method: str = "scan") -> tuple[ranking.Result, dict[str, list[str]]]:
-    result = ranking.optimize(parse_scenario(copy.deepcopy(data), "bounds"), top=3, method=method)
+    result = ranking.optimize(parse_scenario(copy.deepcopy(data), "bounds", bare_si=True), top=3, method=method)
     flags: dict[str, list[str]] = {}
     for flag in result.bounds:
         flags.setdefault(flag.bound, []).append(flag.message)

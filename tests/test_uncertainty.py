@@ -49,6 +49,7 @@ def one_solute(k_log_sd=0.2, lean=0.0, efficiency=0.5, spreads=None) -> towercos
     """The demo absorber cut to toluene and the glycol ether (K = 0.12 given), a fixed efficiency."""
     data = raw()
     data["feed"]["composition"] = {"toluene": "500 ppmv"}
+    data.get("solute", {}).pop("p-xylene", None)
     data["spec"] = [data["spec"][0]]
     solvent = data["solvent"][2]
     solvent["k"] = {"toluene": 0.12}

@@ -19,8 +19,8 @@ from towercost.models import costing, defaults, economics, efficiency, equilibri
 from towercost.models.constants import STANDARD_ATMOSPHERE
 from towercost.models.properties import ideal_gas_density
 from towercost.design.service import Service, service_for
+from towercost.scenario.concentration import Display
 from towercost.scenario.schema import Scenario
-from towercost.scenario.units import mole_fraction_text
 
 
 @dataclass(frozen=True)
@@ -113,6 +113,7 @@ class Case:
     turndown: float = defaults.TURNDOWN       # lowest loads / design loads for the weep check
     valve_fallback: bool = True               # valve trays where sieve trays fall outside their range
     shell_modification: float = 0.0           # existing shell: allowance as a fraction of a new shell's C_BM
+    concentrations: Display | None = None   # the unit each phase's concentrations are shown in
 
     @property
     def mode(self) -> str:
@@ -201,7 +202,7 @@ def _efficiencies(scenario: Scenario, k_value, liquid_m, liquid_mu, liquid_rho, 
 
 def prepare(scenario: Scenario) -> Case:
     """Reduce a validated scenario to the plain arrays the evaluation needs."""
-    notes: list[str] = []
+    notes: list[str] = list(scenario.warnings)   # values outside their usual range
     feed, col, eco = scenario.feed, scenario.column, scenario.economics
     service = service_for(scenario.case.mode)
     agents, solutes = scenario.agents, scenario.solutes
@@ -227,8 +228,9 @@ def prepare(scenario: Scenario) -> Case:
     target = _targets(scenario)
     feed_in = np.array([feed.composition[s] for s in solutes])
     if np.all(target >= feed_in):
-        shown = ", ".join(f"{s} {mole_fraction_text(x)} in, {mole_fraction_text(t)} allowed"
-                          for s, x, t in zip(solutes, feed_in, target) if np.isfinite(t))
+        show = scenario.concentrations().treated_text
+        shown = ", ".join(f"{s} {show(i, x)} in, {show(i, t)} allowed"
+                          for i, (s, x, t) in enumerate(zip(solutes, feed_in, target)) if np.isfinite(t))
         raise ScenarioError(f"[[spec]]: the feed already meets every spec ({shown}); no column is needed")
     shell = col.existing_shell
     design_p = None if col.design_pressure is None else col.design_pressure - STANDARD_ATMOSPHERE
@@ -263,6 +265,7 @@ def prepare(scenario: Scenario) -> Case:
         design_pressure=design_p, design_temperature=col.design_temperature, drive_enclosure=col.drive_enclosure,
         turndown=col.turndown, valve_fallback=col.valve_fallback,
         shell_modification=shell.modification_allowance if shell else 0.0,
+        concentrations=scenario.concentrations(),
     )
 
 

@@ -154,6 +154,30 @@ def design_basis(case) -> tuple[str, str]:
     return pressure, temperature
 
 
+def concentration_fields(case, a: int, s: int, inlet: float, outlet: float, spec: float, agent_out: float) -> dict:
+    """One solute's concentrations in each phase's own unit: the treated stream's and the agent's.
+
+    Gas in ppmv; liquid in the unit the scenario used for that solute, else
+    ppmw (or a mole fraction where the solute's molar mass is not given).
+    """
+    shown = getattr(case, "concentrations", None)
+    if shown is None:
+        return {}
+    _, unit = shown.treated(s, inlet)
+    _, agent_unit = shown.agent(a, s, agent_out)
+    return {
+        "treated_phase": shown.treated_phase,
+        "concentration_unit": unit,
+        "inlet_concentration": shown.treated(s, inlet)[0],
+        "outlet_concentration": shown.treated(s, outlet)[0],
+        "spec_concentration": shown.treated(s, spec)[0] if math.isfinite(spec) else None,
+        "agent_phase": shown.agent_phase,
+        "agent_concentration_unit": agent_unit,
+        "agent_inlet_concentration": shown.agent(a, s, float(case.lean[a, s]))[0],
+        "agent_outlet_concentration": shown.agent(a, s, agent_out)[0],
+    }
+
+
 def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict:
     """One design as plain data (SI units, names spelled out) for JSON and CSV.
 
@@ -178,6 +202,7 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
             "k_value": float(case.k_value[a, s]),
             "agent_outlet_mole_fraction": float(d.agent_outlet[i, s]),
             "agent_inlet_mole_fraction": float(case.lean[a, s]),
+            **concentration_fields(case, a, s, inlet, out, float(case.target[s]), float(d.agent_outlet[i, s])),
         }
     items = equipment_rows(case, d, i)
     uses = use_rows(d, i)
@@ -371,10 +396,14 @@ def alternatives_frame(result):
             "above_best": (float(d.annualized[i]) - best) / abs(best) if best else 0.0,
             "on_search_bounds": " ".join(result.ranked_bounds[i]) if result.ranked_bounds else "",
         }
+        shown = getattr(case, "concentrations", None)
         for s, name in enumerate(case.solutes):
             row[f"stages_{name}"] = float(d.stages[i, s])
             row[f"factor_{name}"] = float(d.factor[i, s])
             row[f"outlet_{name}"] = float(d.outlet[i, s])
+            if shown is not None:
+                value, unit = shown.treated(s, float(d.outlet[i, s]))
+                row[f"outlet_{name}_{unit.replace(' ', '_')}"] = value
         rows.append(row)
     return pd.DataFrame(rows)
 

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import numpy as np
 from rich.console import Console
+from rich.markup import escape
 from rich.table import Table
 
 from towercost.design.internals import TRAY_TYPES
@@ -28,7 +29,23 @@ def _factor_word(case) -> str:
 
 def _money(value: float) -> str:
     """Whole dollars with thousands separators; a value that rounds to zero prints as 0, never -0."""
+    if not np.isfinite(value):
+        return "-"
     return f"{round(float(value)) or 0:,.0f}"
+
+
+def _text(value) -> str:
+    """Text from the scenario (names, warnings) as it is, never read as terminal markup."""
+    return escape(str(value))
+
+
+def concentration_text(case, s: int, x: float) -> str:
+    """Solute ``s`` of the treated stream in its phase's unit (gas ppmv; liquid as the scenario wrote it)."""
+    shown = getattr(case, "concentrations", None)
+    return shown.treated_text(s, float(x)) if shown is not None else mole_fraction_text(float(x))
+
+
+# --------------------------------------------------------------------------- terminal
 
 
 def _table(title: str, *columns: str, right: tuple[int, ...] = ()) -> Table:
@@ -103,7 +120,7 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
     control = int(d.controlling[i])
     _title(console, "Separation")
     columns = [layout.Column("solute", left=True, wrap=True), layout.Column("K"), layout.Column(fw),
-               layout.Column("stages", "theor."), layout.Column("tray eff.", keep=4), layout.Column("inlet"),
+               layout.Column("stages", "theor."), layout.Column("tray eff.", keep=4), layout.Column("inlet", keep=6),
                layout.Column("outlet"), layout.Column("spec"), layout.Column("removed", "%", keep=5)]
     rows = []
     for s, name in enumerate(case.solutes):
@@ -111,8 +128,9 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
         mark = "" if out <= target * (1 + SPEC_TOLERANCE) else " (misses)"
         rows.append(layout.Row([name + (" (controls)" if s == control else ""), f"{case.k_value[a, s]:.4g}",
                                 f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}", f"{d.efficiency[i, s]:.3f}",
-                                mole_fraction_text(inlet), mole_fraction_text(out) + mark,
-                                mole_fraction_text(target), f"{100 * (1 - out / inlet):.3f}"]))
+                                concentration_text(case, s, inlet), concentration_text(case, s, out) + mark,
+                                concentration_text(case, s, target),
+                                f"{100 * (1 - out / inlet):.3f}" if inlet > 0 else "-"]))
     _lines(console, columns, rows)
     console.print(f"tray efficiency = theoretical stages / {int(d.trays[i])} real trays; {case.solutes[control]} "
                   f"controls (its outlet is {100 * d.outlet[i, control] / case.target[control]:.1f} % of its spec)",
@@ -306,14 +324,14 @@ def print_equipment(console: Console, rows: list[dict], utilities: list[dict], t
 
 def print_curve(console: Console, curve) -> None:
     rw = _ratio_word(curve.case)
-    t = _table(f"{curve.agent}: annualized cost against trays (best rate at each)", "trays", rw,
+    t = _table(f"{_text(curve.agent)}: annualized cost against trays (best rate at each)", "trays", rw,
                "diam. m", "installed USD", "annualized USD/yr", right=(0, 1, 2, 3, 4))
     for i in range(len(curve.by_trays)):
         d = curve.by_trays
         t.add_row(str(int(d.trays[i])), f"{d.ratio[i]:.3f}", f"{d.diameter[i]:.3f}", _money(d.installed[i]),
                   _money(d.annualized[i]))
     console.print(t)
-    t = _table(f"{curve.agent}: annualized cost against {rw} (best trays at each level)", rw, "trays",
+    t = _table(f"{_text(curve.agent)}: annualized cost against {rw} (best trays at each level)", rw, "trays",
                "diam. m", "installed USD", "annualized USD/yr", right=(0, 1, 2, 3, 4))
     for i in range(len(curve.by_ratio)):
         d = curve.by_ratio

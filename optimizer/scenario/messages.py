@@ -48,7 +48,16 @@ def _raw_at(data: Any, path: tuple) -> Any:
     return node
 
 
-def _location(data: Any, path: tuple) -> str:
+#: Longest value text shown in a message [characters]; longer values are cut with "...".
+SHOWN = 60
+
+
+def clip(text: str, limit: int = SHOWN) -> str:
+    """``text`` cut to ``limit`` characters, with the length said when cut."""
+    return text if len(text) <= limit else f"{text[:limit - 3]}... ({len(text):,} characters)"
+
+
+def location(data: Any, path: tuple) -> str:
     """A key path as the user sees it: [feed] flow, [[solvent]] 'oil' k.toluene."""
     if not path:
         return ""
@@ -56,12 +65,28 @@ def _location(data: Any, path: tuple) -> str:
     if rest and isinstance(rest[0], int):
         item = _raw_at(data, (head, rest[0]))
         name = (item.get("name") or item.get("solute")) if isinstance(item, dict) else None
-        label = f"[[{head}]] {name!r}" if name else f"[[{head}]] #{rest[0] + 1}"
+        label = f"[[{head}]] {value_text(name)}" if isinstance(name, str) and name else f"[[{head}]] #{rest[0] + 1}"
         rest = rest[1:]
     else:
-        label = f"[{head}]"
-    tail = ".".join(str(k) for k in rest)
+        label = f"[{clip(str(head), 50)}]"
+    tail = ".".join(clip(str(k), 50) for k in rest)
     return f"{label} {tail}".strip()
+
+
+_location = location
+
+
+def value_text(raw: Any) -> str:
+    """A value as the user wrote it (repr), a long string cut with its length said."""
+    if isinstance(raw, str) and len(raw) > SHOWN:
+        return f"{raw[:SHOWN - 10]!r}... ({len(raw):,} characters)"
+    return clip(repr(raw))
+
+
+def shown(data: Any, path: tuple) -> str:
+    """The value at ``path`` as the user wrote it, cut to a readable length."""
+    raw = _raw_at(data, path)
+    return "(not given)" if raw is _MISSING else value_text(raw)
 
 
 def _models_in(annotation) -> list[type[BaseModel]]:
@@ -100,21 +125,24 @@ def _known_keys(path: tuple, root: type[BaseModel] = Scenario) -> list[str]:
 def one_line(path: str, error: dict, data: Any, root: type[BaseModel] = Scenario) -> str:
     """One pydantic error as one line: file, field, what is wrong, the value written."""
     keys, exists = _user_path(data, tuple(error["loc"]))
-    where = _location(data, keys)
+    where = location(data, keys)
     prefix = f"{path}, {where}" if where else path
     kind = error["type"]
+    message = " ".join(str(error["msg"]).removeprefix("Value error, ").split())
+    if not where and message.startswith("["):
+        return clip(f"{path}, {message}", 400)
     if kind == "extra_forbidden":
-        key = str(keys[-1])
+        key = str(keys[-1])[:200]
         known = _known_keys(keys, root)
         near = difflib.get_close_matches(key, known, n=1)
         hint = f"; did you mean {near[0]!r}?" if near else (f"; allowed: {', '.join(known)}" if known else "")
-        return f"{prefix}: unknown key{hint}"
+        return clip(f"{prefix}: unknown key{hint}", 400)
     if kind == "missing" or not exists:
-        return f"{prefix}: required value is missing"
+        return clip(f"{prefix}: required value is missing", 400)
     raw = _raw_at(data, keys)
-    message = error["msg"].removeprefix("Value error, ")
-    shown = "" if raw is _MISSING or isinstance(raw, (dict, list)) or f"{raw!r}" in message else f", got {raw!r}"
-    return f"{prefix}: {message}{shown}"
+    text = value_text(raw)
+    given = "" if raw is _MISSING or isinstance(raw, (dict, list)) or text in message else f", got {text}"
+    return clip(f"{prefix}: {message}{given}", 400)
 
 
 def relevance(error: dict, data: Any, root: type[BaseModel] = Scenario) -> tuple:

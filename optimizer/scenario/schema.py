@@ -1,15 +1,17 @@
 """The scenario file's schema: one absorber or stripper case, validated, in SI.
 
-A scenario is a TOML file with these tables (every physical value may carry a
-unit as text, "1200 kmol/h", "35 degC", "1.2 bar"; a bare number is in the SI
-unit given below):
+A scenario is a TOML file with these tables. Every dimensional value carries
+its unit as text ("1200 kmol/h", "35 degC", "1.2 bara", "0.09 USD/kWh"); a
+bare number there is refused, because it would have to be read in some unit
+the file does not state. Dimensionless values (fractions, factors, counts,
+K-values) are bare numbers.
 
 ``[case]``          name, ``mode`` = "absorb" (treat a gas) or "strip" (treat a liquid)
 ``[feed]``          the stream to treat: flow, temperature, pressure, molar mass,
-                    ``[feed.composition]`` solute mole fractions; for a liquid feed
+                    ``[feed.composition]`` solute concentrations; for a liquid feed
                     also density, viscosity, surface tension
-``[[spec]]``        one per solute: ``outlet`` (mole fraction or "20 ppmv"),
-                    ``removal`` (fraction removed) or ``outlet_mass_rate``
+``[[spec]]``        one per solute: ``outlet`` (a concentration), ``removal``
+                    (fraction removed) or ``outlet_mass_rate``
 ``[[solvent]]``     (absorb) or ``[[stripping_gas]]`` (strip): the candidates,
                     each with ``[...k]`` K-values per solute and its prices
 ``[column]``        tray type, spacing, flood fraction, efficiency, material, limits
@@ -17,6 +19,16 @@ unit given below):
 ``[uncertainty]``   optional: how far each input may be off (distributions of factors on the
                     nominal K-values, efficiencies, prices and cost index), samples, seed,
                     confidence, and the one-at-a-time changes of a sensitivity study
+``[units]``         optional: the atmosphere gauge pressures are read against, and
+                    the normal (Nm3) and standard (scf) conditions of gas volumes
+``[solute.<name>]`` optional: per solute, its molar mass (needed for liquid
+                    concentrations by mass, and to show liquids in ppmw)
+
+Concentrations follow their phase (``towercost.scenario.concentration``):
+gas by volume (ppmv, ppbv, %), liquid by mass or per volume (ppmw, mg/L,
+ug/L) or as a mole fraction. Every value has an allowed range (outside it:
+an error) and most a usual range (outside it: a warning in every output),
+``towercost.scenario.envelope``.
 
 Units are converted here, once; ``towercost.models`` never sees a unit
 string. Defaults come from ``towercost.models.defaults``, the same values
@@ -26,61 +38,68 @@ the relations use.
 from __future__ import annotations
 
 import math
+import unicodedata
 from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, field_validator, model_validator
+from pydantic import (AfterValidator, BaseModel, ConfigDict, Field, PrivateAttr, StrictBool, field_validator,
+                      model_validator)
 
 from towercost.models import defaults
 from towercost.models.equilibrium import HENRY_SCALES
-from towercost.scenario.units import UnitError, dimension_of, to_si
+from towercost.scenario import concentration as conc
+from towercost.scenario import envelope as env
+from towercost.scenario.envelope import number, quantity
+from towercost.scenario.units import DEFAULT_BASIS, NUMBER, Basis, UnitError, dimension_of, registry, to_si, words
 
-__all__ = ["Scenario", "HENRY_SCALES"]
+__all__ = ["Scenario", "HENRY_SCALES", "MAX_NAME", "MAX_CANDIDATES", "MAX_SOLUTES"]
 
+#: Longest name (of a case, candidate or solute) accepted [characters].
+MAX_NAME = 200
 
-def _unit(unit: str):
-    """A pydantic pre-validator turning "number unit" text into the SI magnitude."""
-
-    def parse(value):
-        if value is None:
-            return None
-        try:
-            return to_si(value, unit)
-        except UnitError as exc:
-            raise ValueError(str(exc).replace("value: ", "")) from None
-
-    return BeforeValidator(parse)
+#: Most candidates, solutes and notes characters in one scenario.
+MAX_CANDIDATES = 200
+MAX_SOLUTES = 50
+MAX_NOTES = 2000
 
 
-def _fraction_text(value):
-    """Mole fractions as numbers or text: "500 ppmv", "0.2 %"."""
-    if isinstance(value, str):
-        try:
-            return to_si(value, "dimensionless")
-        except UnitError as exc:
-            raise ValueError(str(exc).replace("value: ", "")) from None
-    return value
+def _printable(allow_lines: bool):
+    def check(value: str) -> str:
+        for ch in value:
+            if allow_lines and ch in "\n\t":
+                continue
+            if unicodedata.category(ch).startswith("C"):
+                raise ValueError(f"must be plain text: it holds the control character U+{ord(ch):04X}")
+        if not allow_lines and value.strip() != value:
+            raise ValueError("must not start or end with blanks")
+        return value
+
+    return AfterValidator(check)
 
 
-Positive = Annotated[float, Field(gt=0, allow_inf_nan=False)]
+_TEXT_PATTERN = r"^[^\u0000-\u001f\u007f-\u009f]*$"
+
+#: A name: 1 to MAX_NAME characters of plain text (printed as text, never as terminal markup).
+Name = Annotated[str, Field(min_length=1, max_length=MAX_NAME, json_schema_extra={"pattern": _TEXT_PATTERN}),
+                 _printable(False)]
+Notes = Annotated[str, Field(max_length=MAX_NOTES), _printable(True)]
+
+MoleFraction = number(env.MOLE_FRACTION)
+Concentration = number(env.MOLE_FRACTION, schema=conc.json_schema())
+FeedConcentration = number(env.FEED_FRACTION, schema=conc.json_schema(positive=True))
+Temperature = quantity(env.COLUMN_TEMPERATURE)
+Pressure = quantity(env.COLUMN_PRESSURE, gauge_or_absolute=True)
+MolarMass = quantity(env.MOLAR_MASS)
+Density = quantity(env.DENSITY)
+Viscosity = quantity(env.VISCOSITY)
+SurfaceTension = quantity(env.SURFACE_TENSION)
+Price = quantity(env.AGENT_PRICE)
+
+#: A spread parameter of the uncertainty study: a finite number >= 0 (a factor's spread has no unit).
 NonNegative = Annotated[float, Field(ge=0, allow_inf_nan=False)]
-MoleFraction = Annotated[float, BeforeValidator(_fraction_text), Field(ge=0, lt=1)]
-Temperature = Annotated[float, _unit("K"), Field(gt=0, allow_inf_nan=False)]
-Pressure = Annotated[float, _unit("Pa"), Field(gt=0, allow_inf_nan=False)]
-Length = Annotated[float, _unit("m"), Field(gt=0)]
-MolarMass = Annotated[float, _unit("kg/mol"), Field(gt=0, allow_inf_nan=False)]
-Density = Annotated[float, _unit("kg/m^3"), Field(gt=0, allow_inf_nan=False)]
-Viscosity = Annotated[float, _unit("Pa*s"), Field(gt=0, allow_inf_nan=False)]
-SurfaceTension = Annotated[float, _unit("N/m"), Field(gt=0, allow_inf_nan=False)]
-PricePerMass = Annotated[float, _unit("USD/kg"), Field(ge=0, allow_inf_nan=False)]
-PricePerVolume = Annotated[float, _unit("USD/m^3"), Field(ge=0, allow_inf_nan=False)]
-PricePerEnergy = Annotated[float, _unit("USD/J"), Field(ge=0, allow_inf_nan=False)]
-Money = Annotated[float, _unit("USD"), Field(gt=0)]
-Power = Annotated[float, _unit("W"), Field(gt=0)]
-MassFlow = Annotated[float, _unit("kg/s"), Field(gt=0)]
-MassRatio = Annotated[float, _unit("dimensionless"), Field(ge=0, allow_inf_nan=False)]
-VolumePerMass = Annotated[float, _unit("m^3/kg"), Field(ge=0, allow_inf_nan=False)]
-Years = Annotated[float, _unit("year"), Field(gt=0, le=100)]
-HoursPerYear = Annotated[float, _unit("hour/year"), Field(gt=0, le=8784)]
+
+
+def _described(text: str) -> Any:
+    return Field(description=text)
 
 
 class _Table(BaseModel):
@@ -90,53 +109,80 @@ class _Table(BaseModel):
 class CaseHeader(_Table):
     """The ``[case]`` table: what the scenario is and which service it asks for."""
 
-    name: str = Field(min_length=1)
-    mode: Literal["absorb", "strip"]
-    notes: str = ""
+    name: Annotated[Name, _described("name of the case, printed as plain text")]
+    mode: Literal["absorb", "strip"] = Field(description="absorb: treat a gas with a liquid solvent; "
+                                             "strip: treat a liquid with a stripping gas")
+    notes: Annotated[Notes, _described("free notes")] = ""
 
 
 class Feed(_Table):
     """The stream to treat: a gas (absorb) or a liquid (strip)."""
 
-    flow: Annotated[float, _unit("mol/s"), Field(gt=0, allow_inf_nan=False)]  # [mol/s]; mass or volume flows converted first
-    temperature: Temperature  # [K]
-    pressure: Pressure  # [Pa] at the column
-    molar_mass: MolarMass  # [kg/mol] of the carrier (gas or liquid)
-    composition: dict[str, MoleFraction]
-    density: Density | None = None  # [kg/m3], liquid feed only
-    viscosity: Viscosity | None = None  # [Pa s], liquid feed only
-    surface_tension: SurfaceTension | None = None  # [N/m], liquid feed only
+    flow: Annotated[quantity(env.MOLAR_FLOW), _described(
+        "feed flow: molar (kmol/h, lbmol/h), mass (kg/h, lb/h; with molar_mass), volume of a liquid (m3/h, "
+        "gpm; with density and molar_mass) or of a gas at normal or standard conditions (Nm3/h, scfm)")]  # [mol/s]
+    temperature: Annotated[Temperature, _described("column temperature (isothermal)")]  # [K]
+    pressure: Annotated[Pressure, _described("pressure at the column (absolute, or gauge as barg/psig)")]  # [Pa]
+    molar_mass: Annotated[MolarMass, _described("molar mass of the carrier gas or liquid")]  # [kg/mol]
+    composition: dict[Annotated[str, Field(min_length=1, max_length=MAX_NAME)], FeedConcentration] = Field(
+        max_length=MAX_SOLUTES, description="solute concentrations in the feed: a gas by volume (ppmv, ppbv, %), "
+        "a liquid by mass or per volume (ppmw, mg/L, ug/L) or a mole fraction")
+    density: Annotated[Density | None, _described("liquid feed only")] = None  # [kg/m3]
+    viscosity: Annotated[Viscosity | None, _described("liquid feed only")] = None  # [Pa s]
+    surface_tension: Annotated[SurfaceTension | None, _described("liquid feed only")] = None  # [N/m]
 
     @model_validator(mode="before")
     @classmethod
-    def _flow_to_molar(cls, data: Any):
-        """Accept a molar, mass or (liquid) volume flow; store mol/s."""
+    def _flow_to_molar(cls, data: Any, info):
+        """Accept a molar, mass or (liquid) volume flow; hand the field "<mol/s> mol/s"."""
         if not isinstance(data, dict) or "flow" not in data:
             return data
         raw = data["flow"]
         dim = dimension_of(raw)
         if dim is None or dim == "[substance] / [time]":
             return data  # molar, a bare number, or text the field itself reports on
+        basis = env._basis(info)
+        context = getattr(info, "context", None)
+        bare_si = isinstance(context, dict) and context.get("bare_si", False)
+
+        def side(name: str, unit: str, envelope) -> float:
+            """A value the conversion needs, read and range-checked as its own field would be."""
+            value = to_si(data[name], unit, what=name, basis=basis, require_unit=not bare_si, example=envelope.show)
+            try:
+                return envelope.check(value)
+            except ValueError as exc:
+                raise UnitError(f"{name} {exc}, got {data[name]!r}") from None
+
         if "molar_mass" not in data:
             raise ValueError(f"a mass or volume flow {raw!r} needs the feed molar_mass")
-        if dim == "[mass] / [time]":
-            molar_mass = to_si(data["molar_mass"], "kg/mol", what="molar_mass")
-            value = to_si(raw, "kg/s") / molar_mass
-        elif dim == "[length] ** 3 / [time]":
-            if "density" not in data:
-                raise ValueError(f"a volume flow {raw!r} needs the feed density")
-            density = to_si(data["density"], "kg/m^3", what="density")
-            molar_mass = to_si(data["molar_mass"], "kg/mol", what="molar_mass")
-            value = to_si(raw, "m^3/s") * density / molar_mass
-        else:
-            raise ValueError(f"flow {raw!r} must be a molar, mass or volume flow per time, got {dim}")
-        return {**data, "flow": value}
+        try:
+            if dim == "[mass] / [time]":
+                molar_mass = side("molar_mass", "kg/mol", env.MOLAR_MASS)
+                value = to_si(raw, "kg/s", basis=basis) / molar_mass
+            elif dim == "[length] ** 3 / [time]":
+                if "density" not in data:
+                    raise ValueError(f"a volume flow {raw!r} needs the feed density (a liquid), or write a gas "
+                                     "flow at normal or standard conditions (Nm3/h, scfm)")
+                density = side("density", "kg/m^3", env.DENSITY)
+                molar_mass = side("molar_mass", "kg/mol", env.MOLAR_MASS)
+                value = to_si(raw, "m^3/s", basis=basis) * density / molar_mass
+            else:
+                try:
+                    kind = words(registry().Quantity(NUMBER.match(raw).group(2)).dimensionality)
+                except Exception:  # noqa: BLE001 - the dimension as pint writes it will do
+                    kind = dim
+                raise ValueError(f"flow {raw!r} must be a molar, mass or volume flow per time, not {kind}")
+        except UnitError as exc:
+            raise ValueError(str(exc)) from None
+        if not (math.isfinite(value) and value > 0):
+            raise ValueError(f"flow {raw!r} with the feed's molar_mass and density is not a flow > 0")
+        return {**data, "flow": f"{value!r} mol/s"}
 
     @field_validator("composition")
     @classmethod
     def _some_solute(cls, value: dict[str, float]):
         if not value:
-            raise ValueError("list at least one solute with its mole fraction")
+            raise ValueError("list at least one solute with its concentration")
         if sum(value.values()) >= 1:
             raise ValueError("solute mole fractions must add up to less than 1")
         return value
@@ -145,11 +191,13 @@ class Feed(_Table):
 class Spec(_Table):
     """What the treated stream must meet for one solute: give exactly one of the three."""
 
-    solute: str
-    outlet: MoleFraction | None = None  # mole fraction in the treated stream
-    removal: Annotated[float, Field(gt=0, lt=1)] | None = None  # fraction of the entering solute removed
-    outlet_mass_rate: MassFlow | None = None  # [kg/s] of solute leaving in the treated stream
-    solute_molar_mass: MolarMass | None = None  # [kg/mol], needed with outlet_mass_rate
+    solute: Annotated[str, Field(min_length=1, max_length=MAX_NAME, description="a solute of [feed.composition]")]
+    outlet: Annotated[Concentration | None, _described("allowed concentration in the treated stream (units of its "
+                                                      "phase)")] = None
+    removal: Annotated[number(env.REMOVAL) | None, _described("fraction of the entering solute removed")] = None
+    outlet_mass_rate: Annotated[quantity(env.SOLUTE_MASS_RATE) | None, _described(
+        "solute leaving with the treated stream")] = None  # [kg/s]
+    solute_molar_mass: Annotated[MolarMass | None, _described("needed with outlet_mass_rate")] = None  # [kg/mol]
 
     @model_validator(mode="after")
     def _one_target(self):
@@ -164,10 +212,13 @@ class Spec(_Table):
 class Henry(_Table):
     """A Henry's-law constant with its scale and temperature dependence."""
 
-    henry: Positive  # in the units of `scale` (the scales of chemicals.Henry_converter)
-    scale: str
-    temperature: Temperature = 298.15  # [K] at which `henry` is given
-    slope: float = 0.0  # [K] d ln H / d(1/T) of the solubility constant (Sander 2015 convention)
+    henry: Annotated[number(env.HENRY), _described("Henry's-law constant in the units of `scale`")]
+    scale: str = Field(max_length=40, description=f"one of {', '.join(HENRY_SCALES)} (the scales of "
+                       "chemicals.Henry_converter)")
+    temperature: Annotated[quantity(env.REFERENCE_TEMPERATURE), _described(
+        "temperature at which `henry` is given")] = 298.15  # [K]
+    slope: Annotated[quantity(env.HENRY_SLOPE, only=("K", "kelvin")), _described(
+        "d ln H / d(1/T) of the solubility constant, in K (Sander 2015 convention)")] = 0.0  # [K]
 
     @field_validator("scale")
     @classmethod
@@ -180,30 +231,35 @@ class Henry(_Table):
 class VapourPressure(_Table):
     """Modified Raoult's law: K = gamma_inf Psat / P."""
 
-    vapour_pressure: Pressure  # [Pa] of the pure solute at the column temperature
-    activity_coefficient: Positive = 1.0  # infinite-dilution value in this liquid
+    vapour_pressure: Annotated[quantity(env.VAPOUR_PRESSURE, absolute=True), _described(
+        "of the pure solute at the column temperature")]  # [Pa]
+    activity_coefficient: Annotated[number(env.ACTIVITY), _described("infinite-dilution value in this liquid")] = 1.0
 
 
-KSource = Annotated[float, Field(gt=0, allow_inf_nan=False)] | Henry | VapourPressure
+KSource = number(env.K_VALUE) | Henry | VapourPressure
 
 
 class Agent(_Table):
     """A candidate solvent (absorb) or stripping gas (strip)."""
 
-    name: str = Field(min_length=1)
+    name: Annotated[Name, _described("name of the candidate, printed as plain text")]
     molar_mass: MolarMass
-    k: dict[str, KSource]  # per solute: K = y/x at column conditions, or Henry / vapour-pressure data
-    density: Density | None = None  # [kg/m3], liquid solvents
-    viscosity: Viscosity | None = None  # [Pa s], liquid solvents
-    surface_tension: SurfaceTension | None = None  # [N/m], liquid solvents
-    price: PricePerMass = 0.0  # [USD/kg] of fresh agent
-    disposal: PricePerMass = 0.0  # [USD/kg] to dispose of or treat the spent agent
-    regenerated: bool = False  # True: circulated through a regenerator, only losses made up
-    loss: Annotated[float, Field(ge=0, le=1)] = 0.0  # fraction of the circulating agent lost per pass
-    lean: dict[str, MoleFraction] = {}  # solute mole fractions in the agent entering the column
-    regeneration_steam: MassRatio = 0.0  # [kg steam / kg agent circulated]
-    regeneration_cooling: VolumePerMass = 0.0  # [m3 cooling water / kg agent circulated]
-    efficiency: Annotated[float, Field(gt=0, le=1)] | None = None  # overall tray efficiency override
+    k: dict[Annotated[str, Field(min_length=1, max_length=MAX_NAME)], KSource] = Field(
+        max_length=MAX_SOLUTES, description="per solute: K = y/x at column conditions, or Henry's-law or "
+        "vapour-pressure data")
+    density: Annotated[Density | None, _described("liquid solvents")] = None  # [kg/m3]
+    viscosity: Annotated[Viscosity | None, _described("liquid solvents")] = None  # [Pa s]
+    surface_tension: Annotated[SurfaceTension | None, _described("liquid solvents")] = None  # [N/m]
+    price: Annotated[Price, _described("fresh agent")] = 0.0  # [USD/kg]
+    disposal: Annotated[Price, _described("to dispose of or treat the spent agent")] = 0.0  # [USD/kg]
+    regenerated: StrictBool = Field(False, description="true: circulated through a regenerator, only losses made up")
+    loss: number(env.LOSS) = 0.0
+    lean: dict[Annotated[str, Field(min_length=1, max_length=MAX_NAME)], Concentration] = Field(
+        {}, max_length=MAX_SOLUTES, description="solute concentrations in the agent entering the column (units of "
+        "its phase)")
+    regeneration_steam: number(env.STEAM_RATIO) = 0.0  # [kg steam / kg agent circulated]
+    regeneration_cooling: quantity(env.COOLING_RATIO) = 0.0  # [m3 cooling water / kg agent circulated]
+    efficiency: Annotated[number(env.EFFICIENCY) | None, _described("overall tray efficiency override")] = None
 
     @model_validator(mode="after")
     def _regeneration_consistent(self):
@@ -213,23 +269,29 @@ class Agent(_Table):
 
 
 class Murphree(_Table):
-    murphree: Annotated[float, Field(gt=0, le=1)]  # Murphree vapour efficiency per tray
+    murphree: number(env.MURPHREE)  # Murphree vapour efficiency per tray
 
 
 class Shell(_Table):
     """An existing shell to reuse: no new shell is bought; the new internals are priced."""
 
-    diameter: Length  # [m] inside diameter
-    max_trays: Annotated[int, Field(ge=1)]
+    diameter: quantity(env.SHELL_DIAMETER)  # [m] inside diameter
+    max_trays: number(env.SHELL_TRAYS)
     # fraction of a new shell's bare-module cost allowed for modifications (nozzles, tray rings, inspection)
-    modification_allowance: Annotated[float, Field(ge=0, le=2)] = 0.0
+    modification_allowance: number(env.MODIFICATION) = 0.0
+
+
+Trays = number(env.TRAYS)
+Ratio = number(env.RATIO)
 
 
 class Column(_Table):
-    tray: Literal["sieve", "valve"] = "sieve"
-    tray_spacing: Length = defaults.TRAY_SPACING  # [m]; 24 in, common practice
-    flood_fraction: Annotated[float, Field(gt=0, le=1)] = defaults.FLOOD_FRACTION
-    efficiency: Annotated[float, Field(gt=0, le=1)] | Literal["oconnell"] | Murphree = "oconnell"
+    tray: Literal["sieve", "valve"] = Field("sieve", description="tray type")
+    tray_spacing: quantity(env.TRAY_SPACING) = defaults.TRAY_SPACING  # [m]; 24 in, common practice
+    flood_fraction: number(env.FLOOD) = defaults.FLOOD_FRACTION
+    efficiency: number(env.EFFICIENCY) | Literal["oconnell"] | Murphree = Field(
+        "oconnell", description="overall tray efficiency in (0, 1], 'oconnell' (O'Connell's absorber correlation "
+        "per solute), or { murphree = 0.7 }")
 
     @field_validator("efficiency", mode="before")
     @classmethod
@@ -237,23 +299,30 @@ class Column(_Table):
         if isinstance(value, str) and value != "oconnell":
             raise ValueError("must be an overall efficiency in (0, 1], 'oconnell', or { murphree = 0.7 }")
         return value
-    material: Literal["carbon_steel", "ss304", "ss316"] = "carbon_steel"
-    trays: tuple[Annotated[int, Field(ge=1)], Annotated[int, Field(ge=1)]] = (1, 80)
-    ratio: tuple[Annotated[float, Field(gt=1)], Annotated[float, Field(gt=1)]] = (1.05, 5.0)
-    ratio_levels: Annotated[int, Field(ge=2, le=2000)] = 50
-    max_height: Length = math.inf  # [m], tangent to tangent
-    max_diameter: Length = math.inf  # [m]
-    existing_shell: Shell | None = None
-    supply_pressure: Pressure = defaults.SUPPLY_PRESSURE  # [Pa] the liquid is pumped from
+    material: Literal["carbon_steel", "ss304", "ss316"] = Field("carbon_steel", description="column material")
+    trays: tuple[Trays, Trays] = Field((1, 80), description="range of real trays searched, [low, high]")
+    ratio: tuple[Ratio, Ratio] = Field((1.05, 5.0), description="range of the agent rate over its minimum "
+                                       "searched, [low, high]")
+    ratio_levels: number(env.RATIO_LEVELS) = 50
+    max_height: Annotated[quantity(env.HEIGHT_LIMIT), _described("tangent to tangent; no limit unless given")] \
+        = math.inf  # [m]
+    max_diameter: Annotated[quantity(env.DIAMETER_LIMIT), _described("no limit unless given")] = math.inf  # [m]
+    existing_shell: Shell | None = Field(None, description="an existing shell to reuse: diameter and max_trays")
+    supply_pressure: Annotated[Pressure, _described("pressure the liquid is pumped from")] \
+        = defaults.SUPPLY_PRESSURE  # [Pa]
     # standard sizes above the least also tried; unset: every size upward until the cost has risen twice in a row
-    larger_diameters: Annotated[int, Field(ge=0, le=60)] | None = None
-    design_pressure: Pressure | None = None  # [Pa] absolute, or gauge text "20 barg"; unset: the margin rule
-    design_temperature: Temperature | None = None  # [K]; unset: operating temperature plus the margin
-    drive_enclosure: Literal["totally_enclosed", "explosion_proof", "open_drip_proof"] = "totally_enclosed"
-    turndown: Annotated[float, Field(gt=0, le=1)] = defaults.TURNDOWN  # lowest loads / design loads; common practice
-    valve_fallback: bool = True  # offer valve trays where sieve trays fall outside their operating range
-    max_dilute: Annotated[float, Field(gt=0, lt=1)] = defaults.MAX_DILUTE  # solute mole fraction; common practice
-    max_flow_change: Annotated[float, Field(gt=0, lt=1)] = defaults.MAX_FLOW_CHANGE  # fractional; common practice
+    larger_diameters: number(env.LARGER) | None = None
+    design_pressure: Annotated[Pressure | None, _described(
+        "vessel design pressure (absolute, or gauge as barg/psig); the margin rule unless given")] = None  # [Pa]
+    design_temperature: Annotated[Temperature | None, _described(
+        "vessel design temperature; operating temperature plus the margin unless given")] = None  # [K]
+    drive_enclosure: Literal["totally_enclosed", "explosion_proof", "open_drip_proof"] = Field(
+        "totally_enclosed", description="enclosure of the electric motors of the pump and the gas mover")
+    turndown: number(env.TURNDOWN) = defaults.TURNDOWN  # lowest loads / design loads; common practice
+    valve_fallback: StrictBool = Field(True, description="offer valve trays where sieve trays fall outside their "
+                                       "operating range")
+    max_dilute: number(env.DILUTE) = defaults.MAX_DILUTE  # solute mole fraction; common practice
+    max_flow_change: number(env.DILUTE) = defaults.MAX_FLOW_CHANGE  # fractional; common practice
 
     @model_validator(mode="after")
     def _ranges(self):
@@ -265,26 +334,56 @@ class Column(_Table):
 
 
 class Economics(_Table):
-    interest: Annotated[float, Field(ge=0, le=1)] = defaults.INTEREST  # per year
-    life: Years = defaults.LIFE  # [yr]
-    hours: HoursPerYear = defaults.HOURS  # [h/yr] of operation
-    electricity: PricePerEnergy = defaults.ELECTRICITY  # [USD/J]; bare numbers are USD/J, write "0.08 USD/kWh"
-    steam: PricePerMass = 0.0  # [USD/kg]
-    cooling_water: PricePerVolume = 0.0  # [USD/m3]
-    cost_year: Annotated[int, Field(ge=1950, le=2100)] | None = None  # index year from models/data
-    cost_index: Positive | None = None  # an index value of your own, overrides cost_year
-    contingency: Annotated[float, Field(ge=0, le=1)] = defaults.CONTINGENCY
-    fee: Annotated[float, Field(ge=0, le=1)] = defaults.FEE
-    auxiliary: Annotated[float, Field(ge=0, le=2)] = defaults.AUXILIARY
-    pump_efficiency: Annotated[float, Field(gt=0, le=1)] = defaults.PUMP_EFFICIENCY
-    blower_efficiency: Annotated[float, Field(gt=0, le=1)] = defaults.BLOWER_EFFICIENCY
-    motor_efficiency: Annotated[float, Field(gt=0, le=1)] = defaults.MOTOR_EFFICIENCY
-    credit: dict[str, PricePerMass] = {}  # [USD/kg] of solute recovered (regenerated agents only)
-    solute_molar_mass: dict[str, MolarMass] = {}  # [kg/mol], needed for credit
-    capital_budget: Money | None = None  # [USD] installed cost cap
-    max_power: Power | None = None  # [W] electric power cap
-    max_steam: MassFlow | None = None  # [kg/s] steam cap
-    margin: Annotated[float, Field(gt=0, lt=1)] = defaults.MARGIN  # near-optimal band, fraction above best
+    interest: number(env.INTEREST) = defaults.INTEREST  # per year
+    life: quantity(env.LIFE) = defaults.LIFE  # [yr]
+    hours: quantity(env.HOURS) = defaults.HOURS  # [h/yr] of operation
+    electricity: quantity(env.ELECTRICITY) = defaults.ELECTRICITY  # [USD/J]
+    steam: quantity(env.STEAM) = 0.0  # [USD/kg]
+    cooling_water: quantity(env.COOLING_WATER) = 0.0  # [USD/m3]
+    cost_year: Annotated[number(env.COST_YEAR) | None, _described("cost-index year from the bundled table; "
+                                                                  "default: the latest")] = None
+    cost_index: Annotated[number(env.COST_INDEX) | None, _described("an index value of your own, overrides "
+                                                                     "cost_year")] = None
+    contingency: number(env.FRACTION) = defaults.CONTINGENCY
+    fee: number(env.FRACTION) = defaults.FEE
+    auxiliary: number(env.AUXILIARY) = defaults.AUXILIARY
+    pump_efficiency: number(env.MACHINE_EFFICIENCY) = defaults.PUMP_EFFICIENCY
+    blower_efficiency: number(env.MACHINE_EFFICIENCY) = defaults.BLOWER_EFFICIENCY
+    motor_efficiency: number(env.MACHINE_EFFICIENCY) = defaults.MOTOR_EFFICIENCY
+    credit: dict[Annotated[str, Field(max_length=MAX_NAME)], quantity(env.SOLUTE_CREDIT)] = Field(
+        {}, max_length=MAX_SOLUTES, description="per solute: value of recovered solute (regenerated agents only)")
+    solute_molar_mass: dict[Annotated[str, Field(max_length=MAX_NAME)], MolarMass] = Field(
+        {}, max_length=MAX_SOLUTES, description="per solute, needed for credit")
+    capital_budget: quantity(env.BUDGET) | None = None  # [USD] installed cost cap
+    max_power: quantity(env.POWER) | None = None  # [W] electric power cap
+    max_steam: quantity(env.STEAM_LIMIT) | None = None  # [kg/s] steam cap
+    margin: number(env.MARGIN) = defaults.MARGIN  # near-optimal band, fraction above best
+
+
+class UnitBasis(_Table):
+    """The ``[units]`` table: what gauge pressures and gas volumes at normal or standard conditions refer to."""
+
+    atmosphere: Annotated[quantity(env.ATMOSPHERE, absolute=True), _described(
+        "local atmospheric pressure that gauge pressures (barg, psig) are read against")] \
+        = DEFAULT_BASIS.atmosphere  # [Pa]
+    normal_temperature: quantity(env.BASIS_TEMPERATURE) = DEFAULT_BASIS.normal_temperature  # [K] of Nm3
+    normal_pressure: quantity(env.ATMOSPHERE, absolute=True) = DEFAULT_BASIS.normal_pressure  # [Pa] of Nm3
+    standard_temperature: quantity(env.BASIS_TEMPERATURE) = DEFAULT_BASIS.standard_temperature  # [K] of scf
+    standard_pressure: quantity(env.ATMOSPHERE, absolute=True) = DEFAULT_BASIS.standard_pressure  # [Pa] of scf
+
+    def basis(self) -> Basis:
+        return Basis(atmosphere=self.atmosphere, normal_temperature=self.normal_temperature,
+                     normal_pressure=self.normal_pressure, standard_temperature=self.standard_temperature,
+                     standard_pressure=self.standard_pressure)
+
+
+class Solute(_Table):
+    """A ``[solute.<name>]`` entry: what the solute itself is."""
+
+    molar_mass: MolarMass  # [kg/mol]
+
+
+SoluteName = Annotated[str, Field(min_length=1, max_length=MAX_NAME)]
 
 
 #: What a [uncertainty] distribution may share one factor across (K-values and efficiencies).
@@ -306,15 +405,18 @@ class Spread(_Table):
     and ``correlation`` how strongly (1: the same factor); ``by_solute`` sets ``log_sd`` per solute.
     """
 
-    distribution: Literal["lognormal", "normal", "triangular", "fixed"]
-    log_sd: NonNegative | None = None
-    sd: NonNegative | None = None
-    low: NonNegative | None = None
-    mode: NonNegative | None = None
-    high: NonNegative | None = None
-    shared: Literal["candidate", "solute", "all", "none"] = "candidate"
-    correlation: Annotated[float, Field(ge=0, le=1)] = 1.0
-    by_solute: dict[str, NonNegative] = {}
+    distribution: Literal["lognormal", "normal", "triangular", "fixed"] = Field(
+        description="how the factor on the nominal value is drawn (may be left out where the parameters say it)")
+    log_sd: NonNegative | None = Field(None, description="lognormal: standard deviation of ln(factor)")
+    sd: NonNegative | None = Field(None, description="normal: standard deviation of the factor (mean 1)")
+    low: NonNegative | None = Field(None, description="triangular: least factor")
+    mode: NonNegative | None = Field(None, description="triangular: most likely factor")
+    high: NonNegative | None = Field(None, description="triangular: largest factor")
+    shared: Literal["candidate", "solute", "all", "none"] = Field(
+        "candidate", description="K and efficiency: what one factor is common to")
+    correlation: Annotated[float, Field(ge=0, le=1)] = Field(
+        1.0, description="K and efficiency: how strongly the shared factor binds (1: the same factor)")
+    by_solute: dict[str, NonNegative] = Field({}, description="lognormal: log_sd per solute")
 
     @model_validator(mode="before")
     @classmethod
@@ -368,23 +470,30 @@ class Uncertainty(_Table):
     interest fixed.
     """
 
-    samples: Annotated[int, Field(ge=1, le=10_000_000)] = defaults.SAMPLES
-    seed: Annotated[int, Field(ge=0)] = 0
-    confidence: Annotated[float, Field(gt=0, lt=1)] = defaults.CONFIDENCE  # a margin design meets every spec so often
-    reoptimize: Annotated[int, Field(ge=0, le=100_000)] = defaults.REOPTIMIZE_SAMPLES  # samples re-optimized
-    efficiency_follows_k: bool = True  # O'Connell efficiencies re-evaluated at each sampled K
-    change: Annotated[float, Field(gt=0, lt=1)] = defaults.SENSITIVITY_CHANGE  # sensitivity: +- fraction
-    changes: dict[str, Annotated[float, Field(gt=0, lt=1)] | ChangePair] = {}  # per input: +- c, or [low, high]
-    k: Spread = _lognormal(defaults.K_LOG_SD)
-    efficiency: Spread = _lognormal(defaults.EFFICIENCY_LOG_SD)
-    agent_price: Spread = _price_spread()
-    disposal: Spread = _price_spread()
-    electricity: Spread = _price_spread()
-    steam: Spread = _price_spread()
-    cooling_water: Spread = _price_spread()
-    credit: Spread = _price_spread()
-    cost_index: Spread = Spread(distribution="normal", sd=defaults.INDEX_SD)
-    interest: Spread = Spread(distribution="fixed")
+    samples: Annotated[int, Field(ge=1, le=10_000_000)] = Field(defaults.SAMPLES, description="Monte Carlo samples")
+    seed: Annotated[int, Field(ge=0)] = Field(0, description="seed of the random draws (the same seed, the same "
+                                              "results)")
+    confidence: Annotated[float, Field(gt=0, lt=1)] = Field(
+        defaults.CONFIDENCE, description="share of the samples a margin design meets every spec in")
+    reoptimize: Annotated[int, Field(ge=0, le=100_000)] = Field(
+        defaults.REOPTIMIZE_SAMPLES, description="samples re-optimized one by one")
+    efficiency_follows_k: StrictBool = Field(True, description="O'Connell efficiencies re-evaluated at each "
+                                             "sampled K")
+    change: Annotated[float, Field(gt=0, lt=1)] = Field(
+        defaults.SENSITIVITY_CHANGE, description="sensitivity study: the +- fraction each input is changed by")
+    changes: dict[str, Annotated[float, Field(gt=0, lt=1)] | ChangePair] = Field(
+        {}, description="sensitivity study, per input: +- c, or [down, up]")
+    k: Spread = Field(_lognormal(defaults.K_LOG_SD), description="spread of the K-values")
+    efficiency: Spread = Field(_lognormal(defaults.EFFICIENCY_LOG_SD), description="spread of the tray efficiencies")
+    agent_price: Spread = Field(_price_spread(), description="spread of the agents' prices")
+    disposal: Spread = Field(_price_spread(), description="spread of the disposal prices")
+    electricity: Spread = Field(_price_spread(), description="spread of the electricity price")
+    steam: Spread = Field(_price_spread(), description="spread of the steam price")
+    cooling_water: Spread = Field(_price_spread(), description="spread of the cooling-water price")
+    credit: Spread = Field(_price_spread(), description="spread of the credits for recovered solute")
+    cost_index: Spread = Field(Spread(distribution="normal", sd=defaults.INDEX_SD),
+                               description="spread of the cost index")
+    interest: Spread = Field(Spread(distribution="fixed"), description="spread of the interest rate")
 
     @model_validator(mode="after")
     def _kinds(self):
@@ -403,12 +512,18 @@ class Uncertainty(_Table):
 class Scenario(_Table):
     case: CaseHeader
     feed: Feed
-    spec: list[Spec] = Field(min_length=1)
-    solvent: list[Agent] = []
-    stripping_gas: list[Agent] = []
+    spec: list[Spec] = Field(min_length=1, max_length=MAX_SOLUTES)
+    solvent: list[Agent] = Field([], max_length=MAX_CANDIDATES)
+    stripping_gas: list[Agent] = Field([], max_length=MAX_CANDIDATES)
     column: Column = Column()
     economics: Economics = Economics()
     uncertainty: Uncertainty = Uncertainty()
+    units: UnitBasis = Field(UnitBasis(), description="reference conditions of gauge pressures and of gas volumes")
+    solute: dict[SoluteName, Solute] = Field({}, max_length=MAX_SOLUTES, description="per solute: molar_mass, "
+                                             "as [solute.<name>] molar_mass = \"92.14 g/mol\"")
+
+    _warnings: tuple[str, ...] = PrivateAttr(default=())
+    _used: dict = PrivateAttr(default_factory=dict)
 
     @property
     def agents(self) -> list[Agent]:
@@ -423,8 +538,26 @@ class Scenario(_Table):
     def agent_word(self) -> str:
         return "solvent" if self.case.mode == "absorb" else "stripping_gas"
 
+    @property
+    def warnings(self) -> tuple[str, ...]:
+        """Values outside their usual range, one line each (they reach every output)."""
+        return self._warnings
+
+    @model_validator(mode="before")
+    @classmethod
+    def _concentrations(cls, data: Any, info):
+        """Concentration text to mole fractions, per phase; the units used are kept for the output."""
+        try:
+            data, used = conc.convert_raw(data, env._basis(info))
+        except UnitError as exc:
+            raise ValueError(str(exc)) from None
+        context = getattr(info, "context", None)
+        if isinstance(context, dict):
+            context["used"] = used
+        return data
+
     @model_validator(mode="after")
-    def _consistent(self):
+    def _consistent(self, info):
         mode, word = self.case.mode, self.agent_word
         other = "stripping_gas" if mode == "absorb" else "solvent"
         if getattr(self, other):
@@ -433,7 +566,8 @@ class Scenario(_Table):
             raise ValueError(f"mode = {mode!r} needs at least one [[{word}]]")
         names = [a.name for a in self.agents]
         if len(set(names)) != len(names):
-            raise ValueError(f"[[{word}]] names must be distinct, got {names}")
+            twice = sorted({n for n in names if names.count(n) > 1})
+            raise ValueError(f"[[{word}]] names must be distinct; {', '.join(map(repr, twice))} appears twice")
         solutes = self.solutes
         for spec in self.spec:
             if spec.solute not in solutes:
@@ -458,6 +592,12 @@ class Scenario(_Table):
         for solute in self.economics.credit:
             if solute not in self.economics.solute_molar_mass:
                 raise ValueError(f"[economics] credit for {solute!r} needs solute_molar_mass.{solute}")
+        for solute in self.solute:
+            if solute not in solutes:
+                raise ValueError(f"[solute] {solute!r} is not in [feed.composition] ({', '.join(solutes)})")
+        context = getattr(info, "context", None)
+        if isinstance(context, dict):
+            self._used = dict(context.get("used", {}))
         return self
 
     @model_validator(mode="after")
@@ -474,3 +614,17 @@ class Scenario(_Table):
                 raise ValueError(f"[uncertainty] changes: {name!r} names no solute of [feed.composition] "
                                  f"({', '.join(solutes)})")
         return self
+
+    # ----------------------------------------------------------------- concentrations
+
+    def solute_molar_mass(self, solute: str) -> float | None:
+        """The solute's molar mass [kg/mol] where the scenario gives one ([solutes], economics or spec)."""
+        if solute in self.solute:
+            return self.solute[solute].molar_mass
+        if solute in self.economics.solute_molar_mass:
+            return self.economics.solute_molar_mass[solute]
+        return next((s.solute_molar_mass for s in self.spec if s.solute == solute and s.solute_molar_mass), None)
+
+    def concentrations(self) -> conc.Display:
+        """The unit each phase's concentrations are shown in (gas ppmv; liquid as written, else ppmw)."""
+        return conc.display_for(self, self._used)

@@ -21,28 +21,32 @@ from __future__ import annotations
 import tomllib
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Annotated
 
 from pydantic import Field, ValidationError, model_validator
 
 from towercost.errors import ScenarioError
-from towercost.scenario.load import load_scenario
+from towercost.scenario import envelope as env
+from towercost.scenario.envelope import quantity
+from towercost.scenario.load import load_scenario, read_text
 from towercost.scenario.messages import one_line, relevance
-from towercost.scenario.schema import MassFlow, Money, Power, Scenario, _Table, _unit
+from towercost.scenario.schema import Name, Scenario, _Table
 
-VolumeFlow = Annotated[float, _unit("m^3/s"), Field(gt=0)]
+Money = quantity(env.BUDGET)
+Power = quantity(env.POWER)
+MassFlow = quantity(env.STEAM_LIMIT)
+VolumeFlow = quantity(env.COOLING_LIMIT)
 
 
 class SiteHeader(_Table):
-    name: str = Field(min_length=1)
+    name: Name
     notes: str = ""
 
 
 class UnitEntry(_Table):
     """One unit of the site: its name and its scenario file."""
 
-    name: str = Field(min_length=1)
-    scenario: str = Field(min_length=1)   # path, relative to the site file
+    name: Name
+    scenario: str = Field(min_length=1, max_length=4096)   # path, relative to the site file
 
 
 class SharedLimits(_Table):
@@ -57,7 +61,7 @@ class SharedLimits(_Table):
 class SolventGroup(_Table):
     """Units that must all use the same solvent (one regenerator, one tank farm)."""
 
-    name: str = Field(min_length=1)
+    name: Name
     units: list[str] = Field(min_length=2)
 
 
@@ -146,14 +150,13 @@ def site_from_units(name: str, units: list[tuple[str, Scenario]], *, shared: dic
 def load_site(path: str | Path) -> SiteSpec:
     """Read a site file and every unit scenario it names."""
     path = Path(path)
+    text = read_text(path)            # regular files only, size-capped, UTF-8 (as scenario files)
     try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
-    except FileNotFoundError:
-        raise ScenarioError(f"{path}: no such file") from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise ScenarioError(f"{path}: cannot be read ({type(exc).__name__})") from None
+        data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise ScenarioError(f"{path}: not valid TOML ({exc})") from None
+    except RecursionError:
+        raise ScenarioError(f"{path}: tables or arrays nested too deep") from None
     try:
         parsed = SiteFile.model_validate(data)
     except ValidationError as exc:

@@ -94,8 +94,8 @@ def evaluate_cases(name: str, optimize_record: dict, scenario: str) -> dict[str,
     for rec in optimize_record["per_agent_best"]:
         agent = rec["agent"]
         tag = re.sub(r"[^A-Za-z0-9]+", "_", agent).strip("_")
-        runs[f"{stem}-evaluate-{tag}"] = ["evaluate", scenario, "--solvent", agent, "--trays", str(rec["trays"]),
-                                          "--ratio", repr(rec["ratio_to_minimum"]), "--json"]
+        # by its design ID: the exact rate and shell (a ratio typed back may miss the spec by rounding)
+        runs[f"{stem}-evaluate-{tag}"] = ["evaluate", scenario, "--design", rec["design_id"], "--json"]
         runs[f"{stem}-curve-{tag}"] = ["curve", scenario, "--solvent", agent]
     return runs
 
