@@ -39,6 +39,7 @@ from typing import NamedTuple
 
 import numpy as np
 
+from towercost.models import defaults
 from towercost.models.hydraulics import GRAVITY, standard_diameter
 from towercost.models.kremser import UnreachableTarget
 from towercost.models.validity import check_range
@@ -53,6 +54,7 @@ __all__ = [
     "check_temperature",
     "check_wetting",
     "dry_pressure_drop",
+    "flood_pressure_drop",
     "flooding_gas_velocity",
     "fraction_of_flood",
     "fraction_remaining_packed",
@@ -67,11 +69,13 @@ __all__ = [
     "onda_wetted_area",
     "overall_htu_gas",
     "overall_htu_liquid",
+    "packed_column_height",
     "packed_diameter",
     "packing_cost",
     "packing_data",
     "packing_names",
     "packing_volume",
+    "packing_weight",
     "transfer_units",
     "transfer_units_gas",
     "transfer_units_liquid",
@@ -79,12 +83,35 @@ __all__ = [
 
 _DATA_FILE = Path(__file__).resolve().parent / "data" / "packings.toml"
 
+# Design defaults of a packed column, each a rule of thumb (common practice);
+# the scenario schema reads them here.
+
+#: Design fraction of flood of a random packing [-]: 0.70 (0.65 to 0.80 is usual), common practice.
+FLOOD_FRACTION = 0.70
+
+#: Pressure-drop limit of a packed bed [Pa/m]: 400 Pa/m, about 0.5 in of water per foot, the upper end of the
+#: 200 to 400 Pa/m usual for absorbers and strippers; common practice. The diameter search finds the economic
+#: pressure drop below it.
+PRESSURE_DROP_LIMIT = 400.0
+
+#: Shell length taken by each redistributor with the support plate and hold-down of the bed below it [m];
+#: common practice for estimating.
+REDISTRIBUTOR_SPACE = 0.9
+
 _ONDA_SOURCE = "the Onda (1968) correlation"
 _STICHLMAIR_SOURCE = "the Stichlmair-Bravo-Fair (1989) model"
 
-# Bisection steps: each halves the bracket, 64 reach the rounding floor from
-# any bracket of ratio below 1e12 (in log space) or width below 1 (linear).
-_BISECTION_STEPS = 64
+# Root finding. Every implicit relation of the Stichlmair model is solved per
+# point by Newton's method with exact slopes, kept inside a bracket that
+# always holds the root (a step leaving it bisects). The loops run over the
+# whole array; a point that has converged keeps its value from then on, so a
+# point's result does not depend on the other points evaluated with it (a
+# design re-evaluated alone gives the very figures of the space's batch).
+_MAX_STEPS = 80
+#: Converged when a step moves the logarithm of the unknown by less than this.
+_LOG_TOLERANCE = 1e-13
+#: Bracket of superficial gas velocities searched for flood or a pressure limit [m/s].
+_VELOCITY_BRACKET = (1e-4, 1e2)
 
 
 def _arrays(*values):
@@ -97,6 +124,10 @@ def _arrays(*values):
 # ---------------------------------------------------------------------------
 # data
 # ---------------------------------------------------------------------------
+
+
+#: Tables of packings.toml that are not packing rows.
+_NOT_PACKINGS = ("material", "material_density", "internals")
 
 
 @functools.lru_cache(maxsize=1)
@@ -113,7 +144,7 @@ def packing_names() -> tuple[str, ...]:
     >>> "pall_ring_plastic_50" in packing_names()
     True
     """
-    return tuple(k for k in _table() if k not in ("material", "internals"))
+    return tuple(k for k in _table() if k not in _NOT_PACKINGS)
 
 
 def packing_data(name: str) -> dict:
@@ -128,7 +159,8 @@ def packing_data(name: str) -> dict:
     -------
     dict
         The row of ``packings.toml`` (SI values and source strings) plus
-        ``critical_surface_tension`` [N/m] from the ``[material]`` table.
+        ``critical_surface_tension`` [N/m] from the ``[material]`` table and
+        ``solid_density`` [kg/m3] from the ``[material_density]`` table.
 
     Examples
     --------
@@ -141,6 +173,7 @@ def packing_data(name: str) -> dict:
         raise ValueError(f"unknown packing {name!r}; known packings: {', '.join(packing_names())}")
     row = dict(table[name])
     row["critical_surface_tension"] = float(table["material"][row["material"]])
+    row["solid_density"] = float(table["material_density"][row["material"]])
     return row
 
 
@@ -821,24 +854,155 @@ def _holdup_factor(holdup, voidage, exponent):
     return power * np.log1p(holdup / (1.0 - voidage)) - 4.65 * np.log1p(-holdup / voidage)
 
 
-def _flood_head(static_holdup, voidage, exponent):
-    """Head gradient p_f [m/m] where the operating curve turns back (flood), per point.
+def _holdup_slopes(holdup, voidage, power):
+    """First and second derivatives in h of the holdup factor ln G(h) of ``_holdup_factor``."""
+    solid = 1.0 - voidage + holdup
+    free = voidage - holdup
+    return power / solid + 4.65 / free, 4.65 / (free * free) - power / (solid * solid)
+
+
+def _safeguarded(value, low, high):
+    """``value`` where it lies strictly inside (low, high), else the midpoint of the bracket."""
+    inside = (value > low) & (value < high)
+    return np.where(inside, value, 0.5 * (low + high))
+
+
+def _newton_step(x, step, low, high):
+    """The next iterate and whether it has converged: x - step, bisecting where it leaves (low, high).
+
+    A step below the tolerance is taken as it is (the root is then at x to
+    rounding, and x may sit on an end of the bracket).
+    """
+    small = np.abs(step) < _LOG_TOLERANCE
+    new = np.where(small, x - np.where(small, step, 0.0), _safeguarded(x - step, low, high))
+    return new, small
+
+
+def _flood_head(static_holdup, voidage, exponent, start=None):
+    """ln of the head gradient p_f [m/m] where the operating curve turns back (flood), per point.
 
     Root in (0, p_max) of 40 h0 p^2 [k/(1 - eps + h) + 4.65/(eps - h)] = 1,
-    h = h0 (1 + 20 p^2), k = (2 + c)/3, whose left side rises with p.
+    h = h0 (1 + 20 p^2), k = (2 + c)/3, whose left side rises with p; solved
+    for y = ln p by Newton's method, kept inside a bracket by bisection.
+    ``start`` is a first guess of y (the last root, when a velocity is being
+    searched); without it the root with Phi' taken at the static holdup.
     """
     power = (2.0 + exponent) / 3.0
-    top = np.sqrt((voidage / static_holdup - 1.0) / 20.0)
-    low = np.zeros_like(top)
-    high = top.copy()
-    for _ in range(_BISECTION_STEPS):
-        mid = 0.5 * (low + high)
-        holdup = static_holdup * (1.0 + 20.0 * mid * mid)
-        side = 40.0 * static_holdup * mid * mid * (power / (1.0 - voidage + holdup) + 4.65 / (voidage - holdup))
-        above = side > 1.0
-        high = np.where(above, mid, high)
-        low = np.where(above, low, mid)
-    return 0.5 * (low + high)
+    high = 0.5 * np.log((voidage / static_holdup - 1.0) / 20.0)     # h reaches the voidage there
+    low = high - 40.0
+    base = np.log(40.0 * static_holdup)
+    if start is None:
+        first, _ = _holdup_slopes(static_holdup, voidage, power)
+        start = -0.5 * (base + np.log(first))
+    y = _safeguarded(start, low, high)
+    done = np.zeros(y.shape, bool)
+    for _ in range(_MAX_STEPS):
+        square = np.exp(2.0 * y)
+        holdup = static_holdup * (1.0 + 20.0 * square)
+        first, second = _holdup_slopes(holdup, voidage, power)
+        residual = base + 2.0 * y + np.log(first)
+        below = residual < 0.0
+        low = np.where(below, y, low)
+        high = np.where(below, high, y)
+        slope = 2.0 + second / first * 40.0 * static_holdup * square
+        step = np.where(slope > 0.0, residual / np.where(slope > 0.0, slope, 1.0), np.nan)
+        new, converged = _newton_step(y, step, low, high)
+        y = np.where(done, y, new)          # a converged point keeps its root: no other point changes it
+        done |= converged
+        if np.all(done):
+            break
+    return y
+
+
+def _operating_head(log_dry, static_holdup, voidage, exponent, log_flood):
+    """ln of the operating head gradient: the root of ln p_dry + ln G(h(p)) - ln p below the flood head.
+
+    The residual falls from > 0 at the dry value to its least at the flood
+    head; Newton's method from the dry value, kept inside [ln p_dry, ln p_f]
+    by bisection, finds the operating root (the only one in that bracket).
+    Points without liquid (h0 = 0) return the dry value.
+    """
+    low, high = log_dry.copy(), np.maximum(log_flood, log_dry)
+    x = log_dry.copy()
+    done = np.zeros(x.shape, bool)
+    for _ in range(_MAX_STEPS):
+        square = np.exp(2.0 * x)
+        holdup = static_holdup * (1.0 + 20.0 * square)
+        residual = log_dry + _holdup_factor(holdup, voidage, exponent) - x
+        left = residual > 0.0
+        low = np.where(left, x, low)
+        high = np.where(left, high, x)
+        first, _ = _holdup_slopes(holdup, voidage, (2.0 + exponent) / 3.0)
+        slope = first * 40.0 * static_holdup * square - 1.0
+        step = np.where(slope < 0.0, residual / np.where(slope < 0.0, slope, -1.0), np.nan)
+        new, converged = _newton_step(x, np.where(residual == 0.0, 0.0, step), low, high)
+        x = np.where(done, x, new)          # a converged point keeps its root: no other point changes it
+        done |= converged
+        if np.all(done):
+            break
+    return x
+
+
+def _exponent_slope(reynolds, c1, c2, c3):
+    """d c / d ln Re of the friction-factor exponent c = d ln f_0 / d ln Re (see ``_dry_terms``)."""
+    root = np.sqrt(reynolds)
+    friction = c1 / reynolds + c2 / root + c3
+    exponent = (-c1 / reynolds - c2 / (2.0 * root)) / friction
+    return (c1 / reynolds + c2 / (4.0 * root)) / friction - exponent * exponent
+
+
+def _velocity_root(residual, low, high, start):
+    """Root of increasing residuals in ln u_G per point: Newton's method kept inside [low, high] by bisection.
+
+    ``residual(w, state)`` returns (value, slope, state) at w = ln u_G, the
+    value +inf where the bed is flooded outright; ``state`` carries a warm
+    start between steps. Returns (w, state at w).
+    """
+    w = _safeguarded(start, low, high)
+    state = None
+    done = np.zeros(w.shape, bool)
+    for _ in range(_MAX_STEPS):
+        value, slope, state = residual(w, state)
+        right = value >= 0.0
+        high = np.where(right, w, high)
+        low = np.where(right, low, w)
+        usable = np.isfinite(value) & (slope > 0.0)
+        step = np.where(usable, value / np.where(usable, slope, 1.0), np.nan)
+        new, converged = _newton_step(w, np.where(value == 0.0, 0.0, step), low, high)
+        w = np.where(done, w, new)          # a converged point keeps its root: no other point changes it
+        done |= converged | (high - low < _LOG_TOLERANCE)
+        if np.all(done):
+            break
+    return w, residual(w, state)[2]
+
+
+def _flood_residual(ratio, fixed_liquid, rho_g, rho_l, mu_g, eps, area, c1, c2, c3):
+    """The flood margin M(w) = ln p_dry + ln G(h_f) - ln p_f and its slope in w = ln u_G.
+
+    With the flood head p_f where d/dp of the operating equation vanishes,
+    dM/dw is the partial derivative at fixed p_f (envelope theorem):
+    (2 + c) + Phi'(h) h dln(h0)/dw + ln(1 + h/(1 - eps)) (dc/dlnRe)/3,
+    dln(h0)/dw = 2/3 when u_L = ratio u_G, 0 when ``fixed_liquid`` holds u_L.
+    """
+    particle = 6.0 * (1.0 - eps) / area
+
+    def residual(w, start):
+        u_g = np.exp(w)
+        u_l = fixed_liquid if fixed_liquid is not None else ratio * u_g
+        dry, exponent = _dry_terms(u_g, rho_g, mu_g, eps, area, c1, c2, c3)
+        static = 0.555 * np.cbrt(u_l**2 * area / (GRAVITY * eps**4.65))
+        usable = static < eps
+        safe = np.where(usable, static, 0.5 * eps)
+        y = _flood_head(safe, eps, exponent, start)
+        holdup = safe * (1.0 + 20.0 * np.exp(2.0 * y))
+        value = np.log(dry / (rho_l * GRAVITY)) + _holdup_factor(holdup, eps, exponent) - y
+        first, _ = _holdup_slopes(holdup, eps, (2.0 + exponent) / 3.0)
+        reynolds = u_g * rho_g * particle / mu_g
+        slope = (2.0 + exponent + first * holdup * (0.0 if fixed_liquid is not None else 2.0 / 3.0)
+                 + np.log1p(holdup / (1.0 - eps)) * _exponent_slope(reynolds, c1, c2, c3) / 3.0)
+        return np.where(usable, value, np.inf), slope, y
+
+    return residual
 
 
 def _stichlmair_state(gas_velocity, liquid_velocity, gas_density, liquid_density, gas_viscosity, voidage,
@@ -856,7 +1020,7 @@ def _stichlmair_state(gas_velocity, liquid_velocity, gas_density, liquid_density
     # No flood without liquid; a static holdup filling the voids is flooded outright.
     usable = (static > 0.0) & (static < voidage)
     safe = np.where(usable, static, 0.5 * voidage)
-    flood_head = _flood_head(safe, voidage, exponent)
+    flood_head = np.exp(_flood_head(safe, voidage, exponent))
     holdup = safe * (1.0 + 20.0 * flood_head**2)
     margin = np.log(dry_head) + _holdup_factor(holdup, voidage, exponent) - np.log(flood_head)
     margin = np.where(usable, margin, np.where(static > 0.0, np.inf, -np.inf))
@@ -885,8 +1049,8 @@ def irrigated_pressure_drop(
 
     with dP_dry/H from :func:`dry_pressure_drop`. The implicit equation in
     dP/H has its operating root between the dry value and the flood head
-    p_f; it is found there by bisection on the logarithm (the root is the
-    only one in that bracket).
+    p_f; it is found there by Newton's method on the logarithm, kept inside
+    that bracket (the root is the only one in it).
 
     Parameters
     ----------
@@ -933,24 +1097,70 @@ def irrigated_pressure_drop(
             "their pressure drop is given as inf"
         )
     wet = u_l > 0.0
-    static = np.where(flooded | ~wet, 0.0, static)  # those points keep the dry value in the loop
+    static = np.where(flooded | ~wet, 0.0, static)  # those points keep the dry value
     log_dry = np.log(dry_head)
-    low = log_dry
-    high = np.where(flooded | ~wet, log_dry, np.log(flood_head))
-    for _ in range(_BISECTION_STEPS):
-        mid = 0.5 * (low + high)
-        head = np.exp(mid)
-        holdup = static * (1.0 + 20.0 * head * head)
-        residual = log_dry + _holdup_factor(holdup, eps, exponent) - mid  # > 0 left of the root
-        left = residual > 0.0
-        low = np.where(left, mid, low)
-        high = np.where(left, high, mid)
-    head = np.where(wet, np.exp(0.5 * (low + high)), dry_head)
+    log_flood = np.where(flooded | ~wet, log_dry, np.log(flood_head))
+    head = np.exp(_operating_head(log_dry, static, eps, exponent, log_flood))
+    head = np.where(wet, head, dry_head)
     return np.where(flooded & wet, np.inf, head * rho_l * GRAVITY)
 
 
+def flood_pressure_drop(
+    gas_velocity,
+    liquid_velocity,
+    gas_density,
+    liquid_density,
+    gas_viscosity,
+    voidage,
+    specific_area,
+    c1,
+    c2,
+    c3,
+):
+    r"""Pressure drop per metre where the operating curve turns back: the flood point's (Stichlmair et al. 1989).
+
+        dP_f / H = rho_L g p_f,    40 h0 p_f^2 [((2 + c)/3)/(1 - eps + h_T) + 4.65/(eps - h_T)] = 1
+
+    At a gas load below flood it is the most the bed can hold at that
+    liquid load; at or above flood (where :func:`irrigated_pressure_drop`
+    has no operating point and gives inf) it is a finite stand-in for the
+    pressure drop of a flooded bed.
+
+    Parameters
+    ----------
+    gas_velocity, liquid_velocity : array_like
+        u_G, u_L [m/s] (u_L > 0).
+    gas_density, liquid_density, gas_viscosity : array_like
+        [kg/m3], [kg/m3], [Pa s].
+    voidage, specific_area, c1, c2, c3 : array_like
+        Packing data, see :func:`dry_pressure_drop`.
+
+    Returns
+    -------
+    ndarray
+        dP_f / H [Pa/m].
+
+    Source: Stichlmair, Bravo and Fair, Gas Sep. Purif. 3, 19 (1989), flooding condition.
+
+    Examples
+    --------
+    >>> at_flood = 0.63943235427469
+    >>> head = flood_pressure_drop(at_flood, 5e-3, 5.0, 1200.0, 5e-5, 0.68, 260.0, 32.0, 7.0, 1.0)
+    >>> wet = irrigated_pressure_drop(0.999 * at_flood, 5e-3, 5.0, 1200.0, 5e-5, 0.68, 260.0, 32.0, 7.0, 1.0)
+    >>> bool(abs(float(wet) / float(head) - 1) < 0.1)
+    True
+    """
+    u_g, u_l, rho_g, rho_l, mu_g, eps, area, k1, k2, k3 = _arrays(
+        gas_velocity, liquid_velocity, gas_density, liquid_density, gas_viscosity, voidage, specific_area,
+        c1, c2, c3,
+    )
+    flood_head = _stichlmair_state(u_g, u_l, rho_g, rho_l, mu_g, eps, area, k1, k2, k3)[2]
+    return flood_head * rho_l * GRAVITY
+
+
 def _flood_bracket(shape):
-    return np.full(shape, np.log(1e-4)), np.full(shape, np.log(1e2))
+    low, high = _VELOCITY_BRACKET
+    return np.full(shape, np.log(low)), np.full(shape, np.log(high))
 
 
 def flooding_gas_velocity(
@@ -973,7 +1183,7 @@ def flooding_gas_velocity(
         40 h_0 p^2 [((2 + c)/3)/(1 - eps + h_T) + 4.65/(eps - h_T)] = 1,
         p = dP / (H rho_L g)
 
-    solved by bisection on ln u_G over 1e-4 to 100 m/s.
+    solved by Newton's method on ln u_G (kept inside 1e-4 to 100 m/s).
 
     Parameters
     ----------
@@ -1005,13 +1215,8 @@ def flooding_gas_velocity(
     if np.any(~(u_l > 0.0)):
         raise ValueError("the liquid velocity must be > 0 for a flooding point")
     low, high = _flood_bracket(u_l.shape)
-    for _ in range(_BISECTION_STEPS):
-        mid = 0.5 * (low + high)
-        margin = _stichlmair_state(np.exp(mid), u_l, rho_g, rho_l, mu_g, eps, area, k1, k2, k3)[-1]
-        above = margin >= 0.0
-        high = np.where(above, mid, high)
-        low = np.where(above, low, mid)
-    return np.exp(0.5 * (low + high))
+    residual = _flood_residual(None, u_l, rho_g, rho_l, mu_g, eps, area, k1, k2, k3)
+    return np.exp(_velocity_root(residual, low, high, np.zeros(u_l.shape))[0])
 
 
 def _area(diameter):
@@ -1019,17 +1224,55 @@ def _area(diameter):
 
 
 def _flood_diameter(gas_volume_flow, liquid_volume_flow, rho_g, rho_l, mu_g, eps, area, k1, k2, k3):
-    """Diameter at which the column floods with the given volume flows [m]."""
-    low, high = np.log(np.full(gas_volume_flow.shape, 1e-4)), np.log(np.full(gas_volume_flow.shape, 1e3))
-    for _ in range(_BISECTION_STEPS):
-        mid = 0.5 * (low + high)
-        cross = _area(np.exp(mid))
-        margin = _stichlmair_state(gas_volume_flow / cross, liquid_volume_flow / cross, rho_g, rho_l, mu_g, eps,
-                                   area, k1, k2, k3)[-1]
-        flooded = margin >= 0.0
-        low = np.where(flooded, mid, low)
-        high = np.where(flooded, high, mid)
-    return np.exp(0.5 * (low + high))
+    """Diameter at which the column floods with the given volume flows [m].
+
+    Both velocities scale with 1/D^2, so the liquid velocity is the gas
+    velocity times Q_L/Q_G; the flood gas velocity at that ratio is found on
+    ln u_G, then D = sqrt(4 Q_G / (pi u_G)).
+    """
+    ratio = liquid_volume_flow / gas_volume_flow
+    low, high = _flood_bracket(gas_volume_flow.shape)
+    residual = _flood_residual(ratio, None, rho_g, rho_l, mu_g, eps, area, k1, k2, k3)
+    velocity = np.exp(_velocity_root(residual, low, high, np.zeros(ratio.shape))[0])
+    return np.sqrt(gas_volume_flow / velocity / (np.pi / 4.0))
+
+
+def _pressure_limited_diameter(gas_volume_flow, liquid_volume_flow, rho_g, rho_l, mu_g, eps, area, k1, k2, k3,
+                               limit):
+    """Diameter at which the irrigated pressure drop equals ``limit`` [Pa/m] on its operating branch [m].
+
+    At the limit the head p is known, so the holdup h = h0 (1 + 20 p^2) is
+    explicit in the velocities and ln p_dry(u_G) + ln G(h) - ln p = 0 is one
+    increasing equation in ln u_G (u_L = u_G Q_L/Q_G). Where its root lies
+    past the flood head (on the unstable branch), the limit is never reached
+    below flood and the flood diameter is returned.
+    """
+    ratio = liquid_volume_flow / gas_volume_flow
+    head = limit / (rho_l * GRAVITY)
+    log_head = np.log(head)
+    particle = 6.0 * (1.0 - eps) / area
+    low, high = _flood_bracket(gas_volume_flow.shape)
+
+    def excess(w, _):
+        u_g = np.exp(w)
+        dry, exponent = _dry_terms(u_g, rho_g, mu_g, eps, area, k1, k2, k3)
+        static = 0.555 * np.cbrt((ratio * u_g) ** 2 * area / (GRAVITY * eps**4.65))
+        holdup = static * (1.0 + 20.0 * head * head)
+        fits = holdup < eps
+        safe = np.where(fits, holdup, 0.0)
+        value = np.log(dry / (rho_l * GRAVITY)) + _holdup_factor(safe, eps, exponent) - log_head
+        first, _ = _holdup_slopes(safe, eps, (2.0 + exponent) / 3.0)
+        reynolds = u_g * rho_g * particle / mu_g
+        slope = (2.0 + exponent + first * safe * 2.0 / 3.0
+                 + np.log1p(safe / (1.0 - eps)) * _exponent_slope(reynolds, k1, k2, k3) / 3.0)
+        return np.where(fits, value, np.inf), slope, None
+
+    velocity = np.exp(_velocity_root(excess, low, high, np.zeros(ratio.shape))[0])
+    state = _stichlmair_state(velocity, ratio * velocity, rho_g, rho_l, mu_g, eps, area, k1, k2, k3)
+    flood = _flood_diameter(gas_volume_flow, liquid_volume_flow, rho_g, rho_l, mu_g, eps, area, k1, k2, k3)
+    diameter = np.sqrt(gas_volume_flow / velocity / (np.pi / 4.0))
+    stable = (state[-1] < 0.0) & (head <= state[2])
+    return np.where(stable, np.maximum(diameter, flood), flood), flood
 
 
 def fraction_of_flood(
@@ -1091,7 +1334,8 @@ class PackedDiameter(NamedTuple):
 
     ``required`` is the larger of ``by_flood`` and ``by_pressure_drop``;
     ``standard`` is it rounded up by ``hydraulics.standard_diameter``.
-    ``pressure_drop`` is the irrigated pressure drop at ``standard`` [Pa/m].
+    ``pressure_drop`` is the irrigated pressure drop at ``standard`` [Pa/m];
+    ``flood`` the diameter at which the column floods at these flows [m].
     """
 
     by_flood: np.ndarray
@@ -1099,6 +1343,7 @@ class PackedDiameter(NamedTuple):
     required: np.ndarray
     standard: np.ndarray
     pressure_drop: np.ndarray
+    flood: np.ndarray
 
 
 def packed_diameter(
@@ -1125,7 +1370,8 @@ def packed_diameter(
 
     Both velocities scale with 1/D^2 at the given mass flows; the pressure
     gradient falls as D grows, and the diameter that meets the limit is
-    found by bisection on ln D (from D_flood, where dP/H is unbounded).
+    found from the explicit form the model takes at a known pressure drop
+    (see ``_pressure_limited_diameter``), by Newton's method on ln u_G.
 
     Parameters
     ----------
@@ -1171,23 +1417,14 @@ def packed_diameter(
         raise ValueError("the pressure-drop limit must be > 0 Pa/m")
     check_range("design fraction of flood", f, 0.4, 0.9, "-", "packed-column sizing (common practice)", warnings)
     q_gas, q_liquid = v / rho_g, l / rho_l
-    flood = _flood_diameter(q_gas, q_liquid, rho_g, rho_l, mu_g, eps, area, k1, k2, k3)
+    by_pressure, flood = _pressure_limited_diameter(q_gas, q_liquid, rho_g, rho_l, mu_g, eps, area, k1, k2, k3,
+                                                    limit)
     by_flood = flood / np.sqrt(f)
-    low, high = np.log(flood), np.log(flood * 1e3)
-    for _ in range(_BISECTION_STEPS):
-        mid = 0.5 * (low + high)
-        cross = _area(np.exp(mid))
-        gradient = irrigated_pressure_drop(q_gas / cross, q_liquid / cross, rho_g, rho_l, mu_g, eps, area,
-                                           k1, k2, k3)
-        too_high = gradient > limit
-        low = np.where(too_high, mid, low)
-        high = np.where(too_high, high, mid)
-    by_pressure = np.exp(0.5 * (low + high))
     required = np.maximum(by_flood, by_pressure)
     shell = standard_diameter(required)
     cross = _area(shell)
     at_shell = irrigated_pressure_drop(q_gas / cross, q_liquid / cross, rho_g, rho_l, mu_g, eps, area, k1, k2, k3)
-    return PackedDiameter(by_flood, by_pressure, required, shell, at_shell)
+    return PackedDiameter(by_flood, by_pressure, required, shell, at_shell, flood)
 
 
 # ---------------------------------------------------------------------------
@@ -1396,6 +1633,79 @@ def bed_split(packed_height, max_bed_height):
         raise ValueError("the packed height must be >= 0 and the maximum bed height > 0")
     beds = np.maximum(1, np.ceil(height / tallest - 1e-9)).astype(int)
     return BedSplit(beds, beds - 1, height / beds)
+
+
+def packed_column_height(packed_height, beds, top_space=defaults.TOP_SPACE, bottom_space=defaults.BOTTOM_SPACE,
+                         redistributor_space=REDISTRIBUTOR_SPACE):
+    r"""Tangent-to-tangent height of a packed column.
+
+        H = Z + (beds - 1) s_r + s_top + s_bottom
+
+    Parameters
+    ----------
+    packed_height : array_like
+        Total packed height Z [m].
+    beds : array_like
+        Number of beds [-], >= 1 (:func:`bed_split`).
+    top_space, bottom_space : array_like
+        Space above the top bed (liquid distributor, disengagement) and below
+        the bottom one (support, gas inlet, liquid sump) [m]; the tray
+        column's defaults (``towercost.models.defaults``), common practice.
+    redistributor_space : array_like
+        Shell length per redistributor with the support and hold-down of the
+        bed below it [m]; ``REDISTRIBUTOR_SPACE``, common practice.
+
+    Returns
+    -------
+    ndarray
+        H [m].
+
+    Notes
+    -----
+    Common practice for estimating; a mechanical design sets the real
+    allowances.
+
+    Examples
+    --------
+    >>> round(float(packed_column_height(10.0, 2)), 6)
+    13.9
+    """
+    height, count = _arrays(packed_height, beds)
+    return height + (count - 1.0) * redistributor_space + top_space + bottom_space
+
+
+def packing_weight(volume, voidage, solid_density):
+    r"""Weight of a dumped packing, dry.
+
+        m = rho_s (1 - eps) V
+
+    Parameters
+    ----------
+    volume : array_like
+        Packed volume V [m3].
+    voidage : array_like
+        eps [-].
+    solid_density : array_like
+        Density of the packing material rho_s [kg/m3] (``[material_density]``
+        of ``packings.toml``).
+
+    Returns
+    -------
+    ndarray
+        m [kg].
+
+    Notes
+    -----
+    The solid fraction of the bed is 1 - eps by definition of the voidage;
+    the liquid held up in operation comes on top.
+
+    Examples
+    --------
+    >>> round(float(packing_weight(10.0, 0.919, 905.0)), 3)
+    733.05
+    """
+    return np.asarray(solid_density, dtype=float) * (1.0 - np.asarray(voidage, dtype=float)) * np.asarray(
+        volume, dtype=float)
 
 
 # ---------------------------------------------------------------------------

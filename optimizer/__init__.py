@@ -71,25 +71,30 @@ def optimize(scenario, *, top: int = 10, method: str = "model", distinct: str = 
     return _optimize(_as_scenario(scenario), top=top, method=method, distinct=distinct)
 
 
-def evaluate(scenario, solvent: str, trays: int, *, ratio: float | None = None, rate: float | None = None,
-             diameter: float | None = None):
+def evaluate(scenario, solvent: str, trays: int | None = None, *, ratio: float | None = None,
+             rate: float | None = None, diameter: float | None = None, packing: str | None = None):
     """Price one design exactly: a ``Designs`` of one row (``.to_frame()``, attributes per figure).
 
     ``rate`` in mol/s, ``diameter`` in m; give ``ratio`` (to the minimum rate) or ``rate``.
+    ``packing`` names a [[packing]] of the scenario (its name or row key) in place of ``trays``: the
+    packed bed's height follows from the rate and the shell.
     """
     from towercost.select.ranking import evaluate_design
 
     _, designs, warnings = evaluate_design(_as_scenario(scenario), solvent, trays, ratio=ratio, rate=rate,
-                                           diameter=diameter)
+                                           diameter=diameter, internals=packing)
     designs.warnings = warnings
     return designs
 
 
-def curve(scenario, solvent: str):
-    """Annualized cost of one candidate against trays and against the ratio to the minimum."""
+def curve(scenario, solvent: str, packing: str | None = None):
+    """Annualized cost of one candidate against trays and against the ratio to the minimum.
+
+    ``packing`` names a [[packing]]: its curve against theoretical stages instead.
+    """
     from towercost.select.ranking import cost_curve
 
-    return cost_curve(_as_scenario(scenario), solvent)
+    return cost_curve(_as_scenario(scenario), solvent, packing)
 
 
 def sensitivity(scenario, *, change: float | None = None):

@@ -387,7 +387,8 @@ def _design(data, design: str):
     """The decisions an identifier names, checked against the scenario's candidates."""
     from towercost.report import ids
 
-    return _run(lambda: ids.parse(design, [a.name for a in data.agents]))
+    return _run(lambda: ids.parse(design, [a.name for a in data.agents],
+                                  [(p.label, p.packing) for p in data.packing]))
 
 
 def _misses(case, designs) -> str | None:
@@ -418,6 +419,8 @@ def evaluate(
                                          "--diameter."),
     solvent: Optional[str] = typer.Option(None, "--solvent", help="Candidate name (solvent, or stripping gas)."),
     trays: Optional[int] = typer.Option(None, "--trays", help=f"Real trays, 1 to {MAX_TRAYS}."),
+    packing: Optional[str] = typer.Option(None, "--packing", help="A [[packing]] of the scenario (its name or row "
+                                          "key), in place of --trays: its height follows from the rate."),
     ratio: Optional[float] = typer.Option(None, "--ratio", help="Agent rate as a multiple of the minimum (L/Lmin or G/Gmin)."),
     rate_: Optional[str] = typer.Option(None, "--rate", help="Agent molar rate with its unit, e.g. '95 kmol/h' or "
                                         "'2000 Nm3/h'."),
@@ -434,15 +437,16 @@ def evaluate(
     molar = None
     if design is not None:
         given = [name for name, value in (("--solvent", solvent), ("--trays", trays), ("--ratio", ratio),
-                                          ("--rate", rate_), ("--diameter", diameter)) if value is not None]
+                                          ("--rate", rate_), ("--diameter", diameter), ("--packing", packing))
+                 if value is not None]
         if given:
             _fail(f"--design names the whole design; give it without {', '.join(given)}")
         named = _design(data, design)
-        solvent, trays, molar, shell = named.agent, named.trays, named.rate, named.diameter
+        solvent, trays, molar, shell, packing = named.agent, named.trays, named.rate, named.diameter, named.internals
     else:
-        if solvent is None or trays is None:
-            _fail("give --design ID, or --solvent and --trays with --ratio or --rate")
-        if not 1 <= trays <= MAX_TRAYS:
+        if solvent is None or (trays is None) == (packing is None):
+            _fail("give --design ID, or --solvent and --trays (or --packing) with --ratio or --rate")
+        if trays is not None and not 1 <= trays <= MAX_TRAYS:
             _fail(f"--trays must be a whole number from 1 to {MAX_TRAYS}, got {trays}")
         if (ratio is None) == (rate_ is None):
             _fail("give exactly one of --ratio and --rate")
@@ -463,7 +467,7 @@ def evaluate(
         shell = _length(diameter, "--diameter")
     _checked(data, scenario, solvent)
     case, designs, warnings = _run(lambda: ranking.evaluate_design(data, solvent, trays, ratio=ratio, rate=molar,
-                                                                   diameter=shell))
+                                                                   diameter=shell, internals=packing))
     note = _run(lambda: ratios.miss_note(case, designs, ratio))
     if as_json:
         record = records.design_record(case, designs, ratio_text=ratios.ratio_texts(case, designs)[0])
@@ -501,7 +505,7 @@ def equipment(
     else:
         named = _design(data, design)
         case, designs, _ = _run(lambda: ranking.evaluate_design(data, named.agent, named.trays, rate=named.rate,
-                                                                diameter=named.diameter))
+                                                                diameter=named.diameter, internals=named.internals))
     rows = eq.equipment_list(case, designs)
     if out is None:
         terminal.print_equipment(terminal.console(), rows, eq.utilities(designs), f"{data.case.name}: equipment list")

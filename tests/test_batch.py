@@ -40,7 +40,9 @@ def folder(tmp_path_factory) -> Path:
     (root / "c_good.toml").write_text(good.replace('price = "1.10 USD/kg"', 'price = "2.50 USD/kg"'),
                                       encoding="utf-8")
     (root / "d_bad.toml").write_text(good.replace("tray_spacing", "tray_spaceing"), encoding="utf-8")
-    (root / "e_infeasible.toml").write_text(good.replace('outlet = "10 ppmv"', 'outlet = "1e-12"'), encoding="utf-8")
+    trays_only = good.replace('[[packing]]\npacking = "pall_ring_metal_50"', "")   # a packed bed reaches 1e-12
+    (root / "e_infeasible.toml").write_text(trays_only.replace('outlet = "10 ppmv"', 'outlet = "1e-12"'),
+                                            encoding="utf-8")
     return root
 
 

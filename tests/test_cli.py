@@ -513,8 +513,9 @@ def _write_variant(tmp_path: Path, name: str, *replacements: tuple[str, str]) ->
 
 
 def test_optimize_infeasible_spec_exits_3(tmp_path):
-    # At most 4 trays cannot take 500 ppmv toluene down to 10 ppmv within 4 x Lmin.
-    path = _write_variant(tmp_path, "few_trays.toml", ("trays = [2, 60]", "trays = [2, 4]"))
+    # At most 4 trays cannot take 500 ppmv toluene down to 10 ppmv within 4 x Lmin (the demo's packed bed cut).
+    path = _write_variant(tmp_path, "few_trays.toml", ("trays = [2, 60]", "trays = [2, 4]"),
+                          ('[[packing]]\npacking = "pall_ring_metal_50"', ""))
     for method in ("scan", "model"):
         assert_one_line_error(run("optimize", path, "--method", method), 3, "no design meets the spec", "4 trays")
 

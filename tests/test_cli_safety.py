@@ -346,7 +346,8 @@ def test_a_space_that_would_not_fit_in_memory_is_refused_with_the_estimate_and_t
     path = _many_candidates(tmp_path, 200, "trays = [1, 1000]\nlarger_diameters = 10")
     path.write_text(path.read_text().replace("ratio_levels = 50", "ratio_levels = 2000"), encoding="utf-8")
     start = time.perf_counter()
-    line = one_line(run("optimize", path), 2, "4,402,200,000 alternatives", "ratio_levels", "[column] trays",
+    # 200 candidates x (1000 tray counts x 2001 rates + one packing x (1000 stage counts + 2000 levels)) x 11 sizes
+    line = one_line(run("optimize", path), 2, "4,408,800,000 alternatives", "ratio_levels", "[column] trays",
                     "fewer candidates")
     assert time.perf_counter() - start < 10, line
 
@@ -360,8 +361,9 @@ def test_check_size_uses_the_flowsheet_estimate():
 
     case = prepare(load_scenario(ABSORBER))
     estimate = SingleColumn(case).estimate()
-    # 3 solvents x 59 tray counts (2..60) x 51 rates x (1 + MAX_WIDER) shell sizes, from the demo file
-    assert check_size(case) == estimate == 3 * 59 * 51 * (1 + MAX_WIDER)
+    # from the demo file: 3 solvents x (59 tray counts (2..60) x 51 rates + one packing x (60 stage counts + 50
+    # levels)) x (1 + MAX_WIDER) shell sizes
+    assert check_size(case) == estimate == 3 * (59 * 51 + 1 * (60 + 50)) * (1 + MAX_WIDER)
     with pytest.raises(TooLarge, match=f"{estimate:,} alternatives"):
         check_size(case, memory=2**20)
 
@@ -412,7 +414,9 @@ def test_infeasible_lean_loading_never_suggests_more_trays(tmp_path):
                    ("[solvent.k]\ntoluene = 0.12", "[solvent.lean]\ntoluene = 2e-5\n[solvent.k]\ntoluene = 0.12"))
     line = one_line(run("optimize", path), 3, "lean loading", "cannot help")
     assert "more trays (" not in line and "would help" not in line
-    few = variant(tmp_path, ("trays = [2, 60]", "trays = [2, 4]"), name="few.toml")
+    # trays only (a packed bed offered 4 theoretical stages would meet the spec)
+    few = variant(tmp_path, ("trays = [2, 60]", "trays = [2, 4]"), ("[[packing]]\npacking", "# packing"),
+                  name="few.toml")
     assert "more trays" in one_line(run("optimize", few), 3, "even at 4 trays")
 
 

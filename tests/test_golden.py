@@ -48,7 +48,7 @@ def _same(old, new, where="") -> list[str]:
             out += _same(a, b, f"{where}[{i}]")
         return out
     if isinstance(old, float) or isinstance(new, float):
-        if not isinstance(new, (int, float)) or isinstance(new, bool):
+        if not isinstance(new, (int, float)) or isinstance(new, bool) or not isinstance(old, (int, float)):
             return [f"{where}: {old!r} became {new!r}"]
         if not math.isclose(old, new, rel_tol=1e-9, abs_tol=1e-300):
             return [f"{where}: {old!r} became {new!r}"]

@@ -27,8 +27,10 @@ from towercost.design import cascade
 from towercost.design.case import Case, prepare
 from towercost.design.column import SingleColumn
 from towercost.design.designs import Designs
+from towercost.design.internals import FIRST_PACKING
 from towercost.design.limits import limit_table
 from towercost.design.space import RESOURCES, Space, build_space
+from towercost.models import packing as packing_models
 from towercost.errors import InfeasibleSpec, ScenarioError
 from towercost.report import records
 from towercost.scenario import load_scenario, parse_scenario
@@ -65,8 +67,8 @@ def model_solve(space: Space, top: int, *, reduce: bool = True):
     unit = model.Unit("column", cost=space.cost[kept], rank=np.arange(kept.size))
     chosen = model.SelectionModel([unit])
     order = [int(kept[c[0]]) for c in chosen.best(top).choices]
-    best_of = {int(a): int(kept[chosen.best(1, restrict=[space.agent[kept] == a]).choices[0][0]])
-               for a in np.unique(space.agent[kept])}
+    best_of = {int(a): int(kept[chosen.best(1, restrict=[space.kind[kept] == a]).choices[0][0]])
+               for a in np.unique(space.kind[kept])}
     return order, best_of, chosen.binaries
 
 
@@ -81,7 +83,7 @@ def kremser_outlet(case: Case, d: Designs) -> np.ndarray:
     Kremser relation for a countercurrent cascade, clean-inlet form
     phi = (F - 1) / (F**(N+1) - 1) (phi = 1/(N+1) at F = 1), with F the
     absorption factor A = L/(K V) or the stripping factor S = K V/L and
-    N = trays x overall efficiency; the outlet is y* + phi (y_in - y*) with
+    N = trays x overall efficiency (a packed bed: packed height / HETP); the outlet is y* + phi (y_in - y*) with
     y* the treated-stream fraction in equilibrium with the entering agent.
     Source: Kremser relation as given in Perry's Chemical Engineers' Handbook,
     8th ed., Section 14 (form from memory). Evaluated with log1p/expm1 so that
@@ -96,8 +98,11 @@ def kremser_outlet(case: Case, d: Designs) -> np.ndarray:
         factor = k * rate / case.feed_flow
         eq = case.lean[d.agent] / k
     stages = d.trays[:, None] * case.efficiency[d.agent]
+    if case.packings:    # a packed bed: its height over each solute's HETP (figures of the design)
+        beds = d.internals >= FIRST_PACKING
+        stages = np.where(beds[:, None], d.packed_height[:, None] / d.hetp, stages)
     gap = factor - 1.0
-    with np.errstate(divide="ignore", invalid="ignore"):
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):   # many stages: phi -> 0 (or 1 - 1/F)
         phi = np.where(gap == 0.0, 1.0 / (stages + 1.0), gap / np.expm1((stages + 1.0) * np.log1p(gap)))
     return eq + phi * (case.feed_in - eq)
 
@@ -111,17 +116,31 @@ def assert_meets_spec_and_limits(case: Case, d: Designs) -> None:
         independent = kremser_outlet(case, d)
         np.testing.assert_allclose(independent, d.outlet, rtol=1e-8, atol=0)
         assert np.all(independent[:, spec] <= case.target[spec] * (1 + 1e-8))
+    beds = d.internals >= FIRST_PACKING if case.packings else np.zeros(len(d), bool)
+    trays = ~beds
     lo, hi = case.trays_range
-    assert np.all((d.trays >= lo) & (d.trays <= hi))
+    assert np.all((d.trays[trays] >= lo) & (d.trays[trays] <= hi))
+    assert np.all((d.trays[beds] >= 1) & (d.trays[beds] <= case.stages_range[1]))
     r_lo, r_hi = case.ratio_range
     assert np.all(d.ratio >= r_lo * (1 - 1e-12)) and np.all(d.ratio <= r_hi * (1 + 1e-12))
-    assert np.all(d.fraction_of_flood <= case.flood_fraction * (1 + 1e-9))
-    assert np.all(d.range_use <= 1.0)                  # inside the tray's operating range
+    assert np.all(d.fraction_of_flood[trays] <= case.flood_fraction * (1 + 1e-9))
+    assert np.all(d.range_use[trays] <= 1.0)           # inside the tray's operating range
+    for k in np.flatnonzero(beds):                     # each packed bed within its packing's own limits
+        choice = case.packings[int(d.internals[k]) - FIRST_PACKING]
+        assert d.fraction_of_flood[k] <= choice.flood_fraction * (1 + 1e-9)
+        assert d.pressure_drop_per_m[k] <= choice.pressure_drop_per_m * (1 + 1e-9)
+        assert d.wetting_ratio[k] >= 1.0 - 1e-9
+        assert d.diameter[k] >= choice.data["min_diameter_ratio"] * choice.data["nominal_size"] * (1 - 1e-9)
+        assert d.design_temperature[k] <= choice.data["max_temperature"]
+        assert d.beds[k] >= 1 and d.bed_height[k] <= choice.max_bed_height * (1 + 1e-9)
     assert np.all(d.height <= case.max_height)
     assert np.all(d.diameter <= case.max_diameter)
     if case.shell_diameter is not None:
         np.testing.assert_allclose(d.diameter, case.shell_diameter, rtol=1e-12)
-        assert np.all(d.trays <= case.shell_max_trays)
+        assert np.all(d.trays[trays] <= case.shell_max_trays)
+        # a packed bed no taller than the shell: the height its most trays would take
+        shell = case.shell_max_trays * case.tray_spacing + 1.2 + 1.8
+        assert np.all(d.height[beds] <= shell * (1 + 1e-9))
     if case.capital_budget is not None:
         assert np.all(d.installed <= case.capital_budget)
     if case.max_power is not None:
@@ -146,7 +165,12 @@ def assert_same_ranking(space: Space, model_order, scan_order, rel: float) -> No
 
 @st.composite
 def scenario_dicts(draw):
-    """A small random absorber or stripper scenario (dict, as read from TOML), without limits."""
+    """A small random absorber or stripper scenario (dict, as read from TOML), without limits.
+
+    Two in three offer one or two packed beds (rows of packings.toml, Onda film heights or a given H_OG,
+    H_OL or HETP, random design fractions of flood and pressure-drop limits), so that the model is held
+    to the scan where trays and packings compete.
+    """
     def log_uniform(lo, hi):
         return 10.0 ** draw(st.floats(math.log10(lo), math.log10(hi)))
 
@@ -213,15 +237,43 @@ def scenario_dicts(draw):
               "ratio": [low_ratio, low_ratio + draw(st.floats(0.5, 5.0))],
               "ratio_levels": draw(st.integers(8, 15)), "flood_fraction": draw(st.floats(0.6, 0.85)),
               "turndown": draw(st.sampled_from([0.5, 0.6, 0.8, 1.0])), "valve_fallback": draw(st.booleans())}
+    if draw(st.integers(0, 4)) == 0:
+        column["compete_tray_types"] = True                  # sieve and valve trays as two alternatives
     larger = draw(st.sampled_from([None, None, 0, 1, 2]))    # None: the diameter search
     if larger is not None:
         column["larger_diameters"] = larger
+    packings = []
+    if draw(st.integers(0, 2)) > 0:   # two scenarios in three offer packed beds beside (or instead of) trays
+        for key in draw(st.lists(st.sampled_from(list(packing_models.packing_names())), min_size=1, max_size=2,
+                                 unique=True)):
+            entry = {"packing": key, "flood_fraction": draw(st.floats(0.5, 0.8)),
+                     "pressure_drop_per_m": draw(st.floats(150.0, 600.0))}
+            given = draw(st.sampled_from([None, None, "h_og", "h_ol", "hetp"]))
+            if given is not None:
+                entry[given] = draw(st.floats(0.3, 2.0))
+            if draw(st.integers(0, 3)) == 0:
+                entry["max_bed_height"] = draw(st.floats(2.0, 8.0))
+            packings.append(entry)
+        column["stages"] = [1, draw(st.integers(3, 12))]
+        if draw(st.integers(0, 4)) == 0:
+            column["offer_trays"] = False
+        gas_viscosity = draw(st.floats(1.2e-5, 2.5e-5))
+        gas_d = {s: log_uniform(3e-6, 2e-5) for s in solutes}
+        liquid_d = {s: log_uniform(2e-10, 3e-9) for s in solutes}
+        if mode == "absorb":
+            feed.update(viscosity=gas_viscosity, diffusivity=gas_d)
+        else:
+            feed["diffusivity"] = liquid_d
+        for agent in agents:
+            agent["diffusivity"] = liquid_d if mode == "absorb" else gas_d
+            if mode == "strip":
+                agent["viscosity"] = gas_viscosity
     economics = {"interest": amount(0.2), "life": draw(st.floats(5.0, 30.0)),
                  "hours": draw(st.floats(4000.0, 8760.0)), "electricity": amount(0.2) / 3.6e6,
                  "steam": amount(0.05), "cooling_water": amount(0.1)}
     word = "solvent" if mode == "absorb" else "stripping_gas"
     return {"case": {"name": "generated", "mode": mode}, "feed": feed, "spec": spec, word: agents,
-            "column": column, "economics": economics}
+            "column": column, "economics": economics, "packing": packings}
 
 
 #: Factors on a design's own figure that set a limit: clear of it by far more than a
@@ -582,11 +634,11 @@ def test_demo_absorber_absorption_factor_rule_of_thumb(absorber_result):
 def test_reported_best_is_exact(optimized):
     assert optimized.solver["difference"] < 1e-6
     case, best = optimized.case, optimized.best
-    fresh = SingleColumn(case).evaluate(best.agent, best.trays, best.rate, best.diameter)
+    fresh = SingleColumn(case).evaluate(best.agent, best.trays, best.rate, best.diameter, best.internals)
     for name in ("annualized", "installed", "operating", "electric_power", "outlet", "fraction_of_flood"):
         np.testing.assert_allclose(getattr(fresh, name), getattr(best, name), rtol=1e-12, atol=0)
     # a fresh evaluation at the least standard diameter is no wider than the reported one
-    least = SingleColumn(case).evaluate(best.agent, best.trays, best.rate)
+    least = SingleColumn(case).evaluate(best.agent, best.trays, best.rate, None, best.internals)
     assert least.diameter[0] <= best.diameter[0] + 1e-12
     if least.diameter[0] == pytest.approx(best.diameter[0], abs=1e-12):
         assert least.annualized[0] == pytest.approx(best.annualized[0], rel=1e-12)

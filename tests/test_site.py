@@ -35,9 +35,18 @@ STRIPPER = tomllib.loads((ROOT / "scenarios" / "demo_air_stripper.toml").read_te
 SITE = ROOT / "scenarios" / "demo_site.toml"
 
 
-def small_unit(base: dict, name: str, flow_scale: float, price_scale: float, trays: tuple[int, int]):
-    """A small variant of a demo scenario: fewer trays and rate levels, so that brute force stays cheap."""
+def small_unit(base: dict, name: str, flow_scale: float, price_scale: float, trays: tuple[int, int],
+               packed: bool = False):
+    """A small variant of a demo scenario: fewer trays and rate levels, so that brute force stays cheap.
+
+    ``packed``: the demo's packed beds stay, searched over two counts of theoretical stages from the trays'
+    least; otherwise they are left out.
+    """
     data = copy.deepcopy(base)
+    if packed:
+        data["column"]["stages"] = [trays[0], trays[0] + 1]
+    else:
+        data.pop("packing", None)
     data["case"]["name"] = name
     number, unit = data["feed"]["flow"].split(" ", 1)
     data["feed"]["flow"] = f"{float(number) * flow_scale:.6g} {unit}"
@@ -88,7 +97,7 @@ def small_sites(draw):
         low = draw(st.integers(8, 14)) if absorb else draw(st.integers(12, 18))
         base = ABSORBER if absorb else STRIPPER
         units.append((f"unit {u}", small_unit(base, f"unit {u}", draw(st.floats(0.4, 1.2)), draw(st.floats(0.3, 3.0)),
-                                              (low, low + draw(st.integers(2, 5))))))
+                                              (low, low + draw(st.integers(2, 5))), packed=u == 0 and draw(st.booleans()))))
     spaces = [build_space(prepare(scenario), keep=RESOURCES) for _, scenario in units]
     least = {name: sum(float(s.usage[SHARED[name][0]][s.feasible].min()) for s in spaces) for name in SHARED}
     alone = {name: sum(float(s.usage[SHARED[name][0]][int(np.flatnonzero(s.feasible)[np.argmin(s.cost[s.feasible])])])

@@ -42,7 +42,10 @@ STRIPPER = ROOT / "scenarios" / "demo_air_stripper.toml"
 
 
 def raw(path=ABSORBER) -> dict:
-    return tomllib.loads(path.read_text(encoding="utf-8"))
+    """A demo scenario as a dict, its packed beds left out: the studies cover tray columns."""
+    data = tomllib.loads(path.read_text(encoding="utf-8"))
+    data.pop("packing", None)
+    return data
 
 
 def one_solute(k_log_sd=0.2, lean=0.0, efficiency=0.5, spreads=None) -> towercost.scenario.Scenario:

@@ -16,6 +16,7 @@ import numpy as np
 
 from towercost.errors import ScenarioError
 from towercost.models import costing, defaults, economics, efficiency, equilibrium
+from towercost.models import packing as packing_models
 from towercost.models.constants import STANDARD_ATMOSPHERE
 from towercost.models.properties import ideal_gas_density
 from towercost.design.service import Service, service_for
@@ -44,6 +45,31 @@ class Economics:
     contingency: float              # fraction of the bare-module cost
     fee: float                      # fraction of the bare-module cost
     auxiliary: float                # fraction of the base bare-module cost
+
+
+@dataclass(frozen=True)
+class PackingChoice:
+    """A ``[[packing]]`` entry in SI: the packing's data row and the design options of its beds."""
+
+    name: str                       # label, as the ranking shows it
+    key: str                        # row of models/data/packings.toml
+    data: dict                      # that row (SI values and sources), ``towercost.models.packing.packing_data``
+    flood_fraction: float           # design fraction of flood [-]
+    pressure_drop_per_m: float      # design limit [Pa/m]
+    max_bed_height: float           # [m]
+    price_per_m3: float             # [USD/m3] at ``price_index_basis``
+    price_index_basis: float        # cost index of the price
+    price_given: bool = False       # the scenario gave the price (else the table's, value from memory)
+    max_pressure_drop: float | None = None   # [Pa] across the beds, a limit
+    max_height: float | None = None          # [m] column height, a limit
+    h_og: float | None = None                # [m] given heights (at most one)
+    h_ol: float | None = None
+    hetp: float | None = None
+
+    @property
+    def constants_checked(self) -> bool:
+        """The Stichlmair constants were read from a source (not estimated)."""
+        return bool(self.data.get("stichlmair_checked", False))
 
 
 @dataclass(frozen=True)
@@ -114,6 +140,16 @@ class Case:
     valve_fallback: bool = True               # valve trays where sieve trays fall outside their range
     shell_modification: float = 0.0           # existing shell: allowance as a fraction of a new shell's C_BM
     concentrations: Display | None = None   # the unit each phase's concentrations are shown in
+    # packed beds offered beside the trays (internals 2, 3, ... after the tray types)
+    packings: tuple[PackingChoice, ...] = ()
+    offer_trays: bool = True                  # trays are offered (else only the packings)
+    compete_tray_types: bool = False          # sieve and valve trays both offered, competing
+    stages_range: tuple[int, int] = (1, 80)   # theoretical stages searched in packed beds
+    max_pressure_drop: float | None = None    # [Pa] gas pressure drop of the column, a limit
+    packing_materials: tuple[str, ...] | None = None   # packing materials allowed; None: any
+    gas_viscosity: np.ndarray | None = None   # (n_agents,) [Pa s]; NaN where not given
+    gas_diffusivity: np.ndarray | None = None     # (n_agents, n_solutes) [m2/s] of each solute in the gas; NaN
+    liquid_diffusivity: np.ndarray | None = None  # (n_agents, n_solutes) [m2/s] in the liquid; NaN
 
     @property
     def mode(self) -> str:
@@ -200,6 +236,45 @@ def _efficiencies(scenario: Scenario, k_value, liquid_m, liquid_mu, liquid_rho, 
     return eff, murphree
 
 
+def _packings(scenario: Scenario, index_to: float) -> tuple[PackingChoice, ...]:
+    """The scenario's ``[[packing]]`` entries in SI.
+
+    Prices are moved to one cost index (the first row's basis; escalation is
+    linear, so this changes no escalated figure): a price the scenario gives
+    is at the estimate's index.
+    """
+    out = []
+    rows = [packing_models.packing_data(entry.packing) for entry in scenario.packing]
+    basis = float(rows[0]["price_index_basis"]) if rows else 1.0   # one basis for the packing row's variants
+    for entry, row in zip(scenario.packing, rows):
+        own = float(row["price_index_basis"])
+        price = row["price_per_m3"] * basis / own if entry.price is None else entry.price * basis / index_to
+        out.append(PackingChoice(
+            name=entry.label, key=entry.packing, data=row, flood_fraction=entry.flood_fraction,
+            pressure_drop_per_m=entry.pressure_drop_per_m,
+            max_bed_height=entry.max_bed_height if entry.max_bed_height is not None else row["max_bed_height"],
+            price_per_m3=float(price), price_index_basis=basis, price_given=entry.price is not None,
+            max_pressure_drop=entry.max_pressure_drop, max_height=entry.max_height, h_og=entry.h_og,
+            h_ol=entry.h_ol, hetp=entry.hetp))
+    return tuple(out)
+
+
+def _transport(scenario: Scenario, service: Service) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Gas viscosity (n_agents,) and the solutes' gas and liquid diffusivities (n_agents, n_solutes); NaN if not given."""
+    feed, agents, solutes = scenario.feed, scenario.agents, scenario.solutes
+
+    def value(x):
+        return np.nan if x is None else float(x)
+
+    feed_d = np.array([value(feed.diffusivity.get(s)) for s in solutes])
+    agent_d = np.array([[value(a.diffusivity.get(s)) for s in solutes] for a in agents]).reshape(len(agents), -1)
+    if service.agent_is_liquid:     # the gas is the feed
+        viscosity = np.full(len(agents), value(feed.viscosity))
+        return viscosity, np.broadcast_to(feed_d, agent_d.shape).copy(), agent_d
+    viscosity = np.array([value(a.viscosity) for a in agents])
+    return viscosity, agent_d, np.broadcast_to(feed_d, agent_d.shape).copy()
+
+
 def prepare(scenario: Scenario) -> Case:
     """Reduce a validated scenario to the plain arrays the evaluation needs."""
     notes: list[str] = list(scenario.warnings)   # values outside their usual range
@@ -242,6 +317,9 @@ def prepare(scenario: Scenario) -> Case:
         raise ScenarioError(f"[column] design_temperature {col.design_temperature - 273.15:.4g} degC is below the "
                             f"operating temperature {feed.temperature - 273.15:.4g} degC; give at least the operating "
                             "temperature, or leave it out for the margin rule")
+    economics_inputs = _economics(scenario)
+    gas_mu, gas_d, liquid_d = _transport(scenario, service)
+    stages = col.stages if col.stages is not None else (1, col.trays[1])
     return Case(
         name=scenario.case.name, service=service, agents=tuple(a.name for a in agents), solutes=tuple(solutes),
         feed_flow=feed.flow, temperature=feed.temperature, pressure=feed.pressure,
@@ -261,11 +339,16 @@ def prepare(scenario: Scenario) -> Case:
         shell_diameter=shell.diameter if shell else None, shell_max_trays=shell.max_trays if shell else None,
         capital_budget=eco.capital_budget, max_power=eco.max_power, max_steam=eco.max_steam,
         max_dilute=col.max_dilute, max_flow_change=col.max_flow_change,
-        economics=_economics(scenario), margin=eco.margin, notes=tuple(notes),
+        economics=economics_inputs, margin=eco.margin, notes=tuple(notes),
         design_pressure=design_p, design_temperature=col.design_temperature, drive_enclosure=col.drive_enclosure,
         turndown=col.turndown, valve_fallback=col.valve_fallback,
         shell_modification=shell.modification_allowance if shell else 0.0,
         concentrations=scenario.concentrations(),
+        packings=_packings(scenario, economics_inputs.index_to), offer_trays=col.offer_trays,
+        compete_tray_types=col.compete_tray_types,
+        stages_range=tuple(stages), max_pressure_drop=col.max_pressure_drop,
+        packing_materials=None if col.packing_materials is None else tuple(col.packing_materials),
+        gas_viscosity=gas_mu, gas_diffusivity=gas_d, liquid_diffusivity=liquid_d,
     )
 
 

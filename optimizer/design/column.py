@@ -1,11 +1,14 @@
 """The one-column flowsheet: one absorber or stripper with its pump, its gas mover and their motors.
 
-A design is a candidate agent, a count of real trays, an agent rate and a
-shell diameter. ``SingleColumn.evaluate`` prices any set of design points
-exactly, all in one call (numpy broadcasting):
+A design is a candidate agent, its internals (trays, or one of the case's
+packings), a count (real trays; a packed bed's theoretical stages, which
+follow from its rate), an agent rate and a shell diameter.
+``SingleColumn.evaluate`` prices any set of design points exactly, all in
+one call (numpy broadcasting):
 
     cascade (towercost.design.cascade)  ->  outlets, factors, stages
     internals (towercost.design.internals)  ->  diameter, height, pressure drop
+                                            (a packed bed: its height, stages and outlets too)
     vessel (towercost.models.vessel)  ->  design pressure, shell and head walls, weights
     machines (towercost.models.economics)  ->  pump and blower power, priced with their motors
     cost lines (towercost.design.costlines)  ->  capital, operating, annualized
@@ -13,9 +16,11 @@ exactly, all in one call (numpy broadcasting):
 
 ``SingleColumn.alternatives`` enumerates the design space in chunks: for each
 agent and tray count, the least rate meeting every spec (exact Kremser
-inverse) and the ratio levels above it; ``SingleColumn.shells`` prices each
-rate at the least standard diameter and the wider ones the diameter search
-offers (until the cost has risen for two sizes in a row).
+inverse) and the ratio levels above it; for each agent and packing, the
+least rate of each count of theoretical stages and the levels above the
+least of them (``towercost.design.packed``). ``SingleColumn.shells`` prices
+each rate at the least standard diameter and the wider ones the diameter
+search offers (until the cost has risen for two sizes in a row).
 
 A regenerated agent's regenerator enters only through the scenario's steam
 and cooling water per kg circulated; its equipment is not modelled here.
@@ -29,12 +34,13 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from towercost.design import cascade
+from towercost.design import cascade, packed
 from towercost.design.case import Case
 from towercost.design.costlines import (AGENT, COOLING, DISPOSAL, ELECTRICITY, STEAM, Equipment, ItemSpec, Uses,
                                         annualize, credit_spec, price_gas_mover, price_item)
 from towercost.design.designs import Designs, Figures
-from towercost.design.internals import LeastCache, Loads, TrayChoice
+from towercost.design.column_internals import ColumnInternals
+from towercost.design.internals import FIRST_PACKING, LeastCache, Loads
 from towercost.design.limits import RATIO_TOLERANCE, SPEC_TOLERANCE, limit_table, limits_met
 from towercost.models import defaults, economics, hydraulics, vessel
 from towercost.models.constants import GRAVITY, STANDARD_ATMOSPHERE
@@ -95,15 +101,18 @@ class Separation:
     loads: Loads
     cache: LeastCache = field(default=None)   # least shells per tray type, found once for every size tried
     fixed: list = field(default_factory=list)  # the Fixed part, once found (priced without messages)
+    internals: np.ndarray = field(default=None)   # per point: -1 the tray rule, 0/1 a tray type, >= 2 a packing
 
     def __post_init__(self):
         if self.cache is None:
             object.__setattr__(self, "cache", LeastCache(self.rate.shape[0]))
+        if self.internals is None:
+            object.__setattr__(self, "internals", np.full(self.rate.shape[0], -1, dtype=np.int8))
 
     def take(self, index) -> "Separation":
         return Separation(self.agent[index], self.trays[index], self.rate[index],
                           Figures(source=self.figures, index=index), self.loads.take(index),
-                          self.cache.take(index), [f.take(index) for f in self.fixed])
+                          self.cache.take(index), [f.take(index) for f in self.fixed], self.internals[index])
 
 
 @dataclass(frozen=True)
@@ -137,6 +146,7 @@ class Chunk:
     diameter: np.ndarray     # NaN: the least standard size
     least: np.ndarray        # the least rate of its (agent, trays) group
     progress: tuple[int, int] = (0, 0)   # (agent, trays) groups enumerated so far, and in all
+    internals: np.ndarray | None = None  # per point: -1 the tray rule, >= FIRST_PACKING a packing (None: trays)
 
 
 class SingleColumn:
@@ -145,8 +155,7 @@ class SingleColumn:
     def __init__(self, case: Case):
         self.case = case
         self.service = case.service
-        self.internals = TrayChoice(case.tray, case.tray_spacing, case.flood_fraction, case.material,
-                                    case.turndown, case.valve_fallback)
+        self.internals = ColumnInternals(case)
         self.shell = shell_spec(case)
         self.pump_drive, self.blower_drive = drive_specs(case.drive_enclosure)
         #: least rate of each agent with unlimited stages [mol/s]: a property of the agent alone
@@ -174,42 +183,100 @@ class SingleColumn:
             return 1
         return 1 + (MAX_WIDER if case.larger_diameters is None else case.larger_diameters)
 
+    def _rates_bound(self) -> int:
+        """The most rates the enumeration separates: per tray group the least and the levels, per packed pair theirs."""
+        case = self.case
+        trays = len(case.agents) * (case.trays_range[1] - case.trays_range[0] + 1) if case.offer_trays else 0
+        trays *= 2 if case.compete_tray_types else 1
+        stages = case.stages_range[1] - case.stages_range[0] + 1
+        beds = len(case.agents) * len(case.packings)
+        return trays * (case.ratio_levels + 1) + beds * (stages + case.ratio_levels)
+
     def estimate(self) -> int:
         """An upper bound on the alternatives ``alternatives`` yields, without evaluating anything."""
-        case = self.case
-        n_groups = len(case.agents) * (case.trays_range[1] - case.trays_range[0] + 1)
-        return n_groups * (case.ratio_levels + 1) * self.diameters_per_rate()
+        return self._rates_bound() * self.diameters_per_rate()
 
     def typical(self) -> int:
         """About how many alternatives the space holds: ``estimate`` with a few sizes per rate when searched."""
         case = self.case
         per_rate = self.diameters_per_rate() if case.larger_diameters is not None else TYPICAL_SIZES
-        n_groups = len(case.agents) * (case.trays_range[1] - case.trays_range[0] + 1)
-        return n_groups * (case.ratio_levels + 1) * min(per_rate, self.diameters_per_rate())
+        return self._rates_bound() * min(per_rate, self.diameters_per_rate())
 
     def alternatives(self, agents=None, chunk: int = CHUNK) -> Iterator[Chunk]:
-        """The design space in batches of about ``chunk`` alternatives."""
+        """The design space in batches of about ``chunk`` alternatives: the trays' groups, then the packed beds'."""
         case = self.case
-        grid_agent, grid_trays = self.groups(agents)
-        rate_min = self.rate_min[grid_agent]
-        lo, hi = case.ratio_range
-        least = np.maximum(cascade.least_rate(case, grid_agent, grid_trays), lo * rate_min)
-        levels = self.rate_grid()
-        reach = np.isfinite(least) & (least <= hi * rate_min * (1 + RATIO_TOLERANCE))
+        chosen = np.arange(len(case.agents)) if agents is None else np.asarray(agents, dtype=int)
+        beds = len(case.packings) * chosen.size
         per_rate = self.diameters_per_rate() if case.larger_diameters is not None else TYPICAL_SIZES
-        groups = np.flatnonzero(reach)
-        per_group = (1 + levels.size) * min(per_rate, self.diameters_per_rate())
-        step = max(1, chunk // per_group)
-        for start in range(0, groups.size, step):
-            g = groups[start:start + step]
-            grid_rates = rate_min[g, None] * levels[None, :]
-            above = grid_rates > least[g, None] * (1 + SAME_RATE)
-            g_idx, l_idx = np.nonzero(above)
-            group = np.concatenate([g, g[g_idx]])
-            rate = np.concatenate([least[g], grid_rates[g_idx, l_idx]])
-            is_least = np.concatenate([np.ones(g.size, bool), np.zeros(g_idx.size, bool)])
-            yield Chunk(grid_agent[group], grid_trays[group], rate, np.full(rate.shape, np.nan), is_least,
-                        (min(start + step, groups.size), groups.size))
+        per_rate = min(per_rate, self.diameters_per_rate())
+        tray_groups = 0
+        if case.offer_trays:
+            grid_agent, grid_trays = self.groups(chosen)
+            rate_min = self.rate_min[grid_agent]
+            lo, hi = case.ratio_range
+            least = np.maximum(cascade.least_rate(case, grid_agent, grid_trays), lo * rate_min)
+            levels = self.rate_grid()
+            reach = np.isfinite(least) & (least <= hi * rate_min * (1 + RATIO_TOLERANCE))
+            groups = np.flatnonzero(reach)
+            tray_groups = groups.size
+            per_group = (1 + levels.size) * per_rate
+            step = max(1, chunk // per_group)
+            # the tray rule (-1), or each tray type as its own alternative where they compete
+            kinds = (0, 1) if case.compete_tray_types else (-1,)
+            for start in range(0, groups.size, step):
+                g = groups[start:start + step]
+                grid_rates = rate_min[g, None] * levels[None, :]
+                above = grid_rates > least[g, None] * (1 + SAME_RATE)
+                g_idx, l_idx = np.nonzero(above)
+                group = np.concatenate([g, g[g_idx]])
+                rate = np.concatenate([least[g], grid_rates[g_idx, l_idx]])
+                is_least = np.concatenate([np.ones(g.size, bool), np.zeros(g_idx.size, bool)])
+                for kind in kinds:
+                    yield Chunk(grid_agent[group], grid_trays[group], rate, np.full(rate.shape, np.nan), is_least,
+                                (min(start + step, groups.size), groups.size + beds),
+                                np.full(rate.shape, kind, dtype=np.int8))
+        done = 0
+        for bed in self.internals.beds:
+            agent, rate, is_least = self.packed_rates(chosen)
+            step = max(1, chunk // per_rate)
+            for start in range(0, rate.size, step):
+                part = slice(start, start + step)
+                n = rate[part].size
+                yield Chunk(agent[part], np.zeros(n, int), rate[part], np.full(n, np.nan), is_least[part],
+                            (tray_groups + done + chosen.size, tray_groups + beds),
+                            np.full(n, bed.index, dtype=np.int8))
+            done += chosen.size
+
+    def packed_rates(self, agents) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """The rates a packed bed is offered at, per candidate: (agent, rate [mol/s], least-rate flag).
+
+        For each count of theoretical stages in ``[column] stages`` the least
+        rate meeting every spec (exact Kremser inverse, raised to the ratio
+        floor), and every ratio level above the least of them, within the
+        ratio range. The same for every packing: the height follows.
+        """
+        case = self.case
+        lo_s, hi_s = case.stages_range
+        stages = np.arange(lo_s, hi_s + 1)
+        lo, hi = case.ratio_range
+        levels = self.rate_grid()
+        out_agent, out_rate, out_least = [], [], []
+        for a in np.asarray(agents, dtype=int):       # a loop over candidates, not design points
+            rate_min = self.rate_min[a]
+            least = np.maximum(packed.stage_least_rates(case, np.full(stages.size, a), stages), lo * rate_min)
+            least = np.unique(least[np.isfinite(least) & (least <= hi * rate_min * (1 + RATIO_TOLERANCE))])
+            if least.size == 0:
+                continue
+            grid = rate_min * levels
+            above = grid[grid > least[0] * (1 + SAME_RATE)]
+            above = above[np.min(np.abs(above[:, None] / least[None, :] - 1.0), axis=1) > SAME_RATE] \
+                if above.size else above
+            out_agent.append(np.full(least.size + above.size, a))
+            out_rate.append(np.concatenate([least, above]))
+            out_least.append(np.concatenate([np.ones(least.size, bool), np.zeros(above.size, bool)]))
+        if not out_rate:
+            return np.zeros(0, int), np.zeros(0), np.zeros(0, bool)
+        return np.concatenate(out_agent), np.concatenate(out_rate), np.concatenate(out_least)
 
     def shells(self, separation: Separation) -> Iterator[tuple[np.ndarray, Designs]]:
         """The separated points priced at each shell size offered: the least first, then wider ones.
@@ -222,7 +289,8 @@ class SingleColumn:
         * otherwise the least size and each next standard size (6 in) until
           the cost has risen for ``RISES`` sizes in a row, the trays weep at
           the turndown loads (a wider shell only weeps more: the operating
-          range ends), the next size exceeds ``max_diameter``, or ``MAX_WIDER``
+          range ends; a packing falls below its minimum wetting rate), the
+          next size exceeds ``max_diameter``, or ``MAX_WIDER``
           sizes have been tried. Where valve trays take the place of sieve
           trays that weep, the wider shells of that design take them at once. The cheapest size of a point is then never
           the widest tried, unless one of the last two ends it.
@@ -236,16 +304,17 @@ class SingleColumn:
         if case.shell_diameter is not None:
             return
         if case.larger_diameters is not None:
-            for wider in self.internals.kinds[0].larger(base.diameter, np.arange(1, case.larger_diameters + 1)).T:
+            for wider in self.internals.trays.kinds[0].larger(base.diameter,
+                                                              np.arange(1, case.larger_diameters + 1)).T:
                 yield everyone, self.price(separation, wider, messages=False)
             return
         cost, diameter = base.annualized.copy(), base.diameter.copy()
         rises = np.zeros(n, dtype=np.int8)
-        fallback = self.internals.fallback
         # -1: the tray rule; once the scenario's trays weep and valve trays take their place, the wider
-        # shells of that design take valve trays at once (a wider shell only weeps more)
-        tray = np.where(base.tray_type == fallback, base.tray_type, -1).astype(np.int8)
-        active = everyone[base.weep_ratio >= 1.0]
+        # shells of that design take valve trays at once (a wider shell only weeps more); a packed bed
+        # keeps its packing. A wider shell only weeps more, or wets a packing less: the search ends there.
+        tray = self._kept(base.internals)
+        active = everyone[base.can_widen]
         limit = case.max_diameter * (1.0 + SPEC_TOLERANCE)
         for _ in range(MAX_WIDER):
             wider = hydraulics.standard_diameter(diameter[active] + hydraulics.STANDARD_DIAMETER_STEP)
@@ -258,18 +327,28 @@ class SingleColumn:
             rose = designs.annualized > cost[active]
             rises[active] = np.where(rose, rises[active] + 1, 0)
             cost[active], diameter[active] = designs.annualized, wider
-            tray[active] = np.where(designs.tray_type == fallback, designs.tray_type, -1)
-            active = active[(rises[active] < RISES) & (designs.weep_ratio >= 1.0)]
+            tray[active] = self._kept(designs.internals)
+            active = active[(rises[active] < RISES) & designs.can_widen]
+
+    def _kept(self, internals) -> np.ndarray:
+        """The internals a wider shell of each design takes: valve trays once they replaced sieve trays, a
+        packing always; else the tray rule (-1)."""
+        if self.case.compete_tray_types:     # every tray type is its own alternative: each keeps its type
+            return np.asarray(internals, dtype=np.int8).copy()
+        keep = (internals == self.internals.fallback) | (internals >= FIRST_PACKING)
+        return np.where(keep, internals, -1).astype(np.int8)
 
     # ----------------------------------------------------------------- evaluation
 
-    def evaluate(self, agent, trays, rate, diameter=None, tray=None) -> Designs:
+    def evaluate(self, agent, trays, rate, diameter=None, internals=None) -> Designs:
         """Evaluate design points exactly.
 
         Arrays of agent index, real trays, agent rate [mol/s] and, optionally,
         the shell diameter [m] (NaN or None: the least standard size that
-        flooding and the downcomers allow, or the scenario's existing shell)
-        and the tray type (index into ``internals.TRAY_TYPES``; None: the
+        flooding and the downcomers (or a packing's flood and pressure-drop
+        limits) allow, or the scenario's existing shell) and the internals
+        (index into ``internals.names``: 0, 1 a tray type, 2... a packing,
+        whose count of stages follows from its rate; -1 or None: the
         scenario's trays, valve trays where those fall outside their range).
         """
         case = self.case
@@ -278,13 +357,17 @@ class SingleColumn:
         agent, trays, rate, diameter = (a.ravel() for a in np.broadcast_arrays(
             np.asarray(agent, dtype=int), np.asarray(trays, dtype=float), np.asarray(rate, dtype=float),
             np.asarray(diameter, dtype=float)))
-        if tray is not None:
-            tray = np.broadcast_to(np.asarray(tray, dtype=np.int8), agent.shape)
-        return self.price(self.separate(agent, trays, rate), diameter, tray)
+        internals = self.internals.resolved(internals, agent.size)
+        return self.price(self.separate(agent, trays, rate, internals), diameter)
 
-    def separate(self, agent, trays, rate) -> Separation:
-        """What a design's diameter does not change: the cascade, the flows and the column loads."""
+    def separate(self, agent, trays, rate, internals=None) -> Separation:
+        """What a design's diameter does not change: the cascade, the flows and the column loads.
+
+        A packed point's count becomes the stages its rate needs (rounded up);
+        its stages and outlets come with its height, in ``price``.
+        """
         case, service = self.case, self.service
+        internals = self.internals.resolved(internals, np.shape(agent)[0])
         out, agent_out, factor, stages = cascade.outlet(case, agent, trays, rate)
         rate_min = self.rate_min[agent]
         with np.errstate(divide="ignore", invalid="ignore"):
@@ -300,21 +383,28 @@ class SingleColumn:
                        efficiency=stages / np.maximum(trays, 1.0)[:, None], controlling=np.argmax(share, axis=-1),
                        outlet=out, agent_outlet=agent_out, meets_spec=cascade.meets_spec(case, out), liquid_flow=liquid,
                        gas_flow=gas, liquid_mass_flow=liquid_mass, gas_mass_flow=gas_mass)
-        return Separation(agent, trays, rate, figures, loads)
+        if case.packings:
+            needed = packed.stages_needed(case, agent, factor)
+            figures["stages_needed"] = needed
+            beds = internals >= FIRST_PACKING
+            if beds.any():
+                trays = np.where(beds, packed.stage_count(needed), trays).astype(float)
+        return Separation(agent, trays, rate, figures, loads, internals=internals)
 
-    def price(self, separation: Separation, diameter, tray=None, *, messages: bool = True) -> Designs:
+    def price(self, separation: Separation, diameter, internals=None, *, messages: bool = True) -> Designs:
         """Size, price and check the separated design points at shell ``diameter`` [m] (NaN: the least size).
 
-        ``tray``: the tray type of each point (None: the scenario's rule). With
-        ``messages`` False no range message is gathered (the space's pass: only
-        re-evaluated designs are reported).
+        ``internals``: of each point (None: the separation's; -1 the scenario's
+        tray rule). With ``messages`` False no range message is gathered (the
+        space's pass: only re-evaluated designs are reported).
         """
         case, service = self.case, self.service
         agent, trays, rate = separation.agent, separation.trays, separation.rate
-        loads = separation.loads
         notes: list[str] | None = list(case.notes) if messages else None
-        size, least = self.internals.size(loads, trays, diameter, tray, cache=separation.cache, warnings=notes)
-        diameter, height = size.diameter, size.height
+        internals = separation.internals if internals is None else internals
+        sizing = self.internals.size(separation, diameter, internals, warnings=notes)
+        diameter, height = sizing.diameter, sizing.height
+        trays_only = bool(np.all(sizing.is_tray))
 
         # Vessel: estimating figures only, not a mechanical design. A design pressure or
         # temperature the scenario gives replaces the margin rule.
@@ -333,20 +423,21 @@ class SingleColumn:
         density = vessel.metal_density(plate)
         shell_kg = vessel.cylinder_weight(diameter, height, wall, density)
         heads_kg = 2.0 * vessel.head_weight(diameter, head, density)
-        trays_kg = vessel.tray_weight(diameter, trays)
+        trays_kg = sizing.figures.pop("tray_weight")
         area = math.pi / 4.0 * diameter**2
         volume = area * height
 
-        # Pump for the liquid fed to the top; gas mover for the gas fed to the bottom.
-        if separation.fixed and not messages:
+        # Pump for the liquid fed to the top; gas mover for the gas fed to the bottom. A packed bed's
+        # height and outlets follow its shell: its pump and credits are priced at each size.
+        if separation.fixed and not messages and trays_only:
             fixed = separation.fixed[0]
         else:
-            fixed = self._fixed(separation, height, notes)
-            if not messages:
+            fixed = self._fixed(separation, height, notes, sizing.figures.get("outlet"))
+            if not messages and trays_only:
                 separation.fixed.append(fixed)
         pump_shaft, q_gas = fixed.pump_shaft, fixed.q_gas
         gas_supply = service.gas_supply_pressure(case.pressure)
-        blower_rise = size.pressure_drop + defaults.BLOWER_ALLOWANCE + max(case.pressure - gas_supply, 0.0)
+        blower_rise = sizing.pressure_drop + defaults.BLOWER_ALLOWANCE + max(case.pressure - gas_supply, 0.0)
         blower_shaft = economics.blower_power(q_gas, gas_supply, blower_rise, case.blower_efficiency)
         electric = (economics.electric_power(pump_shaft, case.motor_efficiency)
                     + economics.electric_power(blower_shaft, case.motor_efficiency))
@@ -358,7 +449,7 @@ class SingleColumn:
         if case.shell_diameter is not None:   # reused: only the modification allowance is charged
             shell = shell.scaled(case.shell_modification, self.shell)
         items = [shell]
-        items += self.internals.items(diameter, trays, size.tray_type, warnings=notes)
+        items += self.internals.items(sizing, trays, warnings=notes)
         items += [*fixed.items,
                   price_gas_mover(FAN, BLOWER, q_gas, blower_rise, warnings=notes),
                   price_item(self.blower_drive, blower_shaft / 1000.0, warnings=notes)]
@@ -370,11 +461,7 @@ class SingleColumn:
         annual = annualize(equipment, uses, eco)
 
         figures = Figures(dict(
-            flow_parameter=size.flow_parameter, flooding_velocity=size.flooding_velocity,
-            diameter_required=size.diameter_required, diameter_flooding=least.flooding, diameter_least=least.diameter,
-            fraction_of_flood=size.fraction_of_flood, tray_type=size.tray_type, weep_ratio=size.weep_ratio,
-            entrainment=size.entrainment, backup_fraction=size.backup_fraction, residence_time=size.residence_time,
-            range_use=size.range_use, range_governs=size.range_governs, height=height, pressure_drop_per_tray=size.pressure_drop_per_tray, pressure_drop=size.pressure_drop,
+            **sizing.figures,
             design_pressure=np.broadcast_to(p_design, rate.shape).astype(float),
             design_temperature=np.broadcast_to(t_design, rate.shape).astype(float),
             wall_thickness=wall, head_thickness=np.broadcast_to(head, rate.shape).astype(float), shell_weight=shell_kg,
@@ -393,8 +480,11 @@ class SingleColumn:
         designs.figures["within_limits"] = limits_met(designs.limits, len(designs))
         return designs
 
-    def _fixed(self, separation: Separation, height, notes) -> Fixed:
-        """The pump and its motor, the gas flow and the uses other than electricity: no diameter in them."""
+    def _fixed(self, separation: Separation, height, notes, outlet=None) -> Fixed:
+        """The pump and its motor, the gas flow and the uses other than electricity: no diameter in them.
+
+        ``outlet``: the treated stream's outlets where the internals set them (packed beds).
+        """
         case, service = self.case, self.service
         agent, loads = separation.agent, separation.loads
         liquid_mass, gas_mass, rho_l = loads.liquid_mass_flow, loads.gas_mass_flow, loads.liquid_density
@@ -416,7 +506,7 @@ class SingleColumn:
         eco = case.economics
         rows = [(AGENT, purge, case.price[agent]), (DISPOSAL, purge, case.disposal[agent]),
                 (STEAM, steam_rate, eco.steam), (COOLING, cooling_rate, eco.cooling_water)]
-        removed = case.feed_in - separation.figures["outlet"]  # per mol of treated stream
+        removed = case.feed_in - (separation.figures["outlet"] if outlet is None else outlet)  # per mol treated
         for s, solute in enumerate(case.solutes):
             if case.credit[s] > 0:
                 rows.append((credit_spec(solute), np.where(regen, case.feed_flow * removed[:, s], 0.0),

@@ -12,12 +12,16 @@ An internals object answers, for arrays of design points:
 * ``items(diameter, count, ...)``: its own cost lines (the trays; a
   packing's bed, distributors and supports).
 
-Trays are the internals today: sieve or valve (Fair's flooding correlation,
-the Sinnott weep point for sieve trays, Fair's entrainment chart and the
-downcomer checks of ``towercost.models.hydraulics``). ``TrayChoice`` holds
-the scenario's trays and, where they are sieve trays and fall outside their
-operating range, valve trays with their wider turndown in their place.
-Packings plug in beside trays with the same methods.
+Trays are sieve or valve (Fair's flooding correlation, the Sinnott weep
+point for sieve trays, Fair's entrainment chart and the downcomer checks of
+``towercost.models.hydraulics``). ``TrayChoice`` holds the scenario's trays
+and, where they are sieve trays and fall outside their operating range,
+valve trays with their wider turndown in their place. Packed beds
+(``towercost.design.packed``) are the other alternatives.
+
+``towercost.design.column_internals.ColumnInternals`` puts every
+alternative of a case behind one interface (an internals index per point:
+0 and 1 the tray types, ``FIRST_PACKING`` + p the case's p-th packing).
 """
 
 from __future__ import annotations
@@ -32,6 +36,9 @@ from towercost.models import hydraulics
 
 #: Tray types in the order their index is stored per design (figure ``tray_type``).
 TRAY_TYPES = ("sieve", "valve")
+
+#: The internals index of the case's first [[packing]]: the tray types come first.
+FIRST_PACKING = len(TRAY_TYPES)
 
 #: Standard sizes above the flooding size tried for the downcomer limits before giving up.
 DOWNCOMER_STEPS = 40
@@ -222,6 +229,18 @@ class LeastCache:
         part._store, part._n, part.index = self._store, self._n, self.index[index]
         return part
 
+    def arrays(self, key, count: int, compute) -> list[np.ndarray]:
+        """``count`` arrays of this part's points kept under ``key`` (a packing's least shells), computed once.
+
+        ``compute(local)`` gives the arrays for the points of the part still missing.
+        """
+        store = self._store.setdefault(key, tuple(np.full(self._n, np.nan) for _ in range(count)))
+        missing = np.flatnonzero(np.isnan(store[0][self.index]))
+        if missing.size:
+            for column, values in zip(store, compute(missing)):
+                column[self.index[missing]] = values
+        return [column[self.index] for column in store]
+
     def get(self, kind: int, compute) -> tuple[Least, TraySizing | None]:
         """The least shells of tray type ``kind`` for this part, and the sizing in them where just found.
 
@@ -252,11 +271,13 @@ class TrayChoice:
     """
 
     def __init__(self, tray_type: str, spacing: float, flood_fraction: float, material: str,
-                 turndown: float = hydraulics.TURNDOWN, fallback: bool = True):
+                 turndown: float = hydraulics.TURNDOWN, fallback: bool = True, both: bool = False):
         self.kinds = tuple(Trays(t, spacing, flood_fraction, material, turndown) for t in TRAY_TYPES)
         self.preferred = TRAY_TYPES.index(tray_type)
         self.fallback = TRAY_TYPES.index("valve") if fallback and tray_type == "sieve" else None
         used = [self.preferred] + ([self.fallback] if self.fallback is not None else [])
+        if both:     # every tray type priced somewhere (the types compete as alternatives)
+            used += [k for k in range(len(TRAY_TYPES)) if k not in used]
         self.variants = tuple(self.kinds[k].item for k in used)
 
     def size(self, loads: Loads, count, diameter, tray=None, *, cache: LeastCache | None = None,

@@ -11,7 +11,10 @@ A ``Space`` re-evaluates any subset of its alternatives in full on demand
 (``designs``); the figures reported are always such re-evaluations.
 
 Ties in cost are ordered by one key everywhere (``TIE_KEY``): cost, then
-fewer trays, then lower rate, then smaller diameter, then candidate order.
+fewer trays (a packed bed: fewer theoretical stages), then lower rate, then
+smaller diameter, then candidate order, then internals order (the tray types,
+then the packings in the scenario's order): the internals come last, so
+that a scenario without packings keeps the order it always had.
 """
 
 from __future__ import annotations
@@ -24,11 +27,11 @@ import numpy as np
 from towercost.design.case import Case
 from towercost.design.column import CHUNK, SingleColumn
 from towercost.design.designs import Designs
-from towercost.design.internals import TRAY_TYPES
+from towercost.design.internals import FIRST_PACKING
 from towercost.design.limits import limit_table
 
 #: The order of alternatives of equal cost, first key first.
-TIE_KEY = ("annualized cost", "fewer trays", "lower rate", "smaller diameter", "candidate order")
+TIE_KEY = ("annualized cost", "fewer trays", "lower rate", "smaller diameter", "candidate order", "internals order")
 
 #: Shared resources a space can keep a column of (figure names of ``Designs``).
 RESOURCES = ("installed", "electric_power", "steam_rate", "cooling_rate")
@@ -54,7 +57,7 @@ class Space:
     trays: np.ndarray            # real trays
     rate: np.ndarray             # agent rate [mol/s]
     diameter: np.ndarray         # shell diameter [m]
-    tray: np.ndarray             # tray type (index into towercost.design.internals.TRAY_TYPES)
+    internals: np.ndarray        # internals (index into flowsheet.internals.names: tray types, then packings)
     cost: np.ndarray             # total annualized cost [USD/yr]
     feasible: np.ndarray         # meets every spec and every limit
     least: np.ndarray            # the least rate of its (agent, trays) group
@@ -73,23 +76,48 @@ class Space:
             return self.rate / self.flowsheet.rate_min[self.agent]
 
     @property
+    def family(self) -> np.ndarray:
+        """0 for trays (either type), 1 + p for the p-th packing: what the listings tell apart."""
+        return np.maximum(self.internals.astype(np.int64) - FIRST_PACKING + 1, 0)
+
+    @property
+    def kind(self) -> np.ndarray:
+        """The candidate and internals family of each alternative, as one integer (the candidate alone without packings).
+
+        Each kind's best design is reported ("the best of each candidate", and
+        of each of its internals where the case offers packings).
+        """
+        return self.agent.astype(np.int64) * (1 + len(self.case.packings)) + self.family
+
+    def kind_of(self, kind: int) -> tuple[int, int]:
+        """(candidate index, internals family) of a ``kind``."""
+        return divmod(int(kind), 1 + len(self.case.packings))
+
+    @property
     def group(self) -> np.ndarray:
-        """The (agent, trays) group of each alternative, as one integer."""
-        lo, hi = self.case.trays_range
-        return self.agent * (hi - lo + 1) + (self.trays - lo)
+        """The (agent, internals family, count) group of each alternative, as one integer.
+
+        The count is real trays, or a packed bed's theoretical stages; a case
+        without packings keeps the (agent, trays) numbering.
+        """
+        case = self.case
+        lo = min(case.trays_range[0], case.stages_range[0]) if case.packings else case.trays_range[0]
+        hi = max(case.trays_range[1], case.stages_range[1]) if case.packings else case.trays_range[1]
+        families = 1 + len(case.packings)
+        return (self.agent.astype(np.int64) * families + self.family) * (hi - lo + 1) + (self.trays - lo)
 
     def tie_order(self, index=None) -> np.ndarray:
         """``index`` (default: all) sorted by ``TIE_KEY``."""
         index = np.arange(len(self)) if index is None else np.asarray(index, dtype=int)
-        order = np.lexsort((self.agent[index], self.diameter[index], self.rate[index], self.trays[index],
-                            self.cost[index]))
+        order = np.lexsort((self.internals[index], self.agent[index], self.diameter[index], self.rate[index],
+                            self.trays[index], self.cost[index]))
         return index[order]
 
     def designs(self, index) -> Designs:
         """The alternatives at ``index``, re-evaluated in full (one call), in the order given."""
         index = np.asarray(index, dtype=int)
         return self.flowsheet.evaluate(self.agent[index], self.trays[index], self.rate[index], self.diameter[index],
-                                       self.tray[index])
+                                       self.internals[index])
 
     def full(self) -> Designs:
         """Every alternative in full (for small spaces: tests, curves)."""
@@ -101,7 +129,8 @@ class Space:
 
         frame = pd.DataFrame({"agent": np.asarray(self.case.agents, dtype=object)[self.agent], "trays": self.trays,
                               "rate": self.rate, "ratio": self.ratio, "diameter": self.diameter,
-                              "tray": np.asarray(TRAY_TYPES, dtype=object)[self.tray], "annualized": self.cost, "feasible": self.feasible, "least": self.least})
+                              "internals": np.asarray(self.flowsheet.internals.names, dtype=object)[self.internals],
+                              "annualized": self.cost, "feasible": self.feasible, "least": self.least})
         for name, values in self.usage.items():
             frame[name] = values
         return frame
@@ -150,17 +179,17 @@ def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: i
     chosen = np.arange(len(case.agents)) if agents is None else np.asarray(agents, dtype=int)
     share = chosen.size / max(len(case.agents), 1)
     estimate = int(flowsheet.estimate() * share)
-    dtypes = {"agent": np.int32, "trays": np.int32, "rate": float, "diameter": float, "tray": np.int8,
+    dtypes = {"agent": np.int32, "trays": np.int32, "rate": float, "diameter": float, "internals": np.int8,
               "cost": float, "feasible": bool, "least": bool, **{name: float for name in keep}}
     store = _Columns(dtypes, int(flowsheet.typical() * share), estimate)
     floors: dict[str, LimitFloor] = {}
     spec_met = 0
     for batch in flowsheet.alternatives(chosen, chunk):
-        separated = flowsheet.separate(batch.agent, batch.trays.astype(float), batch.rate)
+        separated = flowsheet.separate(batch.agent, batch.trays.astype(float), batch.rate, batch.internals)
         # the same separation in each shell offered: only sizing and cost change
         for index, designs in flowsheet.shells(separated):
             values = {"agent": designs.agent, "trays": designs.trays, "rate": designs.rate,
-                      "diameter": designs.diameter, "tray": designs.tray_type, "cost": designs.annualized,
+                      "diameter": designs.diameter, "internals": designs.internals, "cost": designs.annualized,
                       "feasible": designs.within_limits, "least": batch.least[index],
                       **{name: getattr(designs, name) for name in keep}}
             store.append(values, len(designs))
@@ -188,6 +217,7 @@ def _gather_floors(case: Case, designs: Designs, floors: dict[str, LimitFloor]) 
         if limit.is_spec or limit.name.startswith("ratio"):
             continue
         floor = floors.setdefault(limit.name, LimitFloor(limit.label, limit.unit, limit.bound))
-        if meets.any():
-            floor.least = min(floor.least, float(np.min(limit.values[meets])))
+        there = meets & limit.applies          # a limit of other internals does not count here
+        if there.any():
+            floor.least = min(floor.least, float(np.min(limit.values[there])))
     return int(meets.sum())

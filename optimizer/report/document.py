@@ -44,6 +44,11 @@ ASSUMPTIONS = [
     ("Real trays from theoretical stages by the overall tray efficiency (given, O'Connell, or Murphree "
      "through the Lewis relation).", "oconnell"),
     ("Diameter from Fair's flooding correlation at the design fraction of flood, in 6 in standard steps.", "fair"),
+    ("Packed beds (where the scenario offers them): the least packed height meeting every spec at the design's "
+     "rate and shell, theoretical stages x HETP = N_OG x H_OG (Colburn), H_OG from the Onda film heights or a "
+     "given value; capacity and pressure drop by the Stichlmair, Bravo and Fair model at a design fraction of "
+     "flood and a pressure-drop limit per metre; the minimum wetting rate and the diameter over packing size "
+     "checked; beds split by the packing's tallest bed, with redistributors.", "packed"),
     ("Shell and head thickness by ASME VIII-1 UG-27 and UG-32 with joint efficiency and corrosion allowance; "
      "weights for estimating only.", "asme"),
     ("Equipment costs from Turton et al.'s purchased-cost correlations and bare-module factors, escalated by the "
@@ -64,6 +69,10 @@ REFERENCES = {
     "turton": "Turton, Bailie, Whiting, Shaeiwitz and Bhattacharyya, Analysis, Synthesis and Design of Chemical "
               "Processes, 4th ed., Prentice Hall, 2012, Appendix A and Ch. 7-9.",
     "cepci": "Chemical Engineering magazine, Plant Cost Index (CEPCI), annual averages.",
+    "packed": "Colburn, A. P. (1939), Trans. AIChE 35, 211; Onda, Takeuchi and Okumoto (1968), J. Chem. Eng. Japan "
+              "1(1), 56; Stichlmair, Bravo and Fair (1989), Gas Sep. Purif. 3, 19; Morris and Jackson, Absorption "
+              "Towers (1953); Seider, Seader, Lewin and Widagdo, Product and Process Design Principles, 3rd ed., "
+              "Section 16.5 (internals cost, value from memory).",
     "aace": "AACE International Recommended Practice 18R-97, Cost Estimate Classification System (value from "
             "memory for the class ranges).",
 }
@@ -98,7 +107,9 @@ def _design_rows(case, d, best: float, ranks: list[int]) -> list[dict]:
     names = ids.ids_of(case, d)
     rows = []
     for i in range(len(d)):
-        rows.append({"rank": ranks[i], "agent": case.agents[int(d.agent[i])], "trays": int(d.trays[i]),
+        trays = (f"{records.internals_name(case, d, i)}, {d.packed_height[i]:.1f} m" if records.is_packed(d, i)
+                 else int(d.trays[i]))
+        rows.append({"rank": ranks[i], "agent": case.agents[int(d.agent[i])], "trays": trays,
                      "ratio": texts[i], "diameter": f"{d.diameter[i]:.3f}", "height": f"{d.height[i]:.2f}",
                      "installed": _money(d.installed[i]), "operating": _money(d.operating[i] - d.credit[i]),
                      "annualized": _money(d.annualized[i]),
@@ -110,13 +121,53 @@ def _design_rows(case, d, best: float, ranks: list[int]) -> list[dict]:
 def _sheet(case, d, i: int) -> dict:
     """The best design's sheet: separation per solute, column figures, capital and annual cost lines."""
     a = int(d.agent[i])
+    packed = records.is_packed(d, i)
     separation = [{"solute": name, "k": f"{case.k_value[a, s]:.4g}", "factor": f"{d.factor[i, s]:.3f}",
-                   "stages": f"{d.stages[i, s]:.2f}", "efficiency": f"{d.stages[i, s] / d.trays[i]:.3f}",
+                   "stages": f"{d.stages[i, s]:.2f}",
+                   "efficiency": (f"{d.hetp[i, s]:.3f} m" if packed else f"{d.stages[i, s] / d.trays[i]:.3f}"),
                    "inlet": mole_fraction_text(case.feed_in[s]), "outlet": mole_fraction_text(d.outlet[i, s]),
                    "spec": mole_fraction_text(case.target[s]) if math.isfinite(case.target[s]) else "none",
                    "removed": f"{100 * (1 - d.outlet[i, s] / case.feed_in[s]):.3f}"}
                   for s, name in enumerate(case.solutes)]
-    column = [
+    if packed:
+        choice = records.packing_choice(case, d, i)
+        unit = "OL" if case.mode == "strip" else "OG"
+        column = [
+            ("packing", f"{choice.name}" + ("" if choice.constants_checked else
+                                             " (Stichlmair constants are estimates: capacity and pressure drop "
+                                             "indicative)"), "packed"),
+            ("packed height and beds", f"{d.packed_height[i]:.2f} m in {int(d.beds[i])} bed(s) of "
+                                       f"{d.bed_height[i]:.2f} m", "packed"),
+            (f"N_{unit} / H_{unit} / HETP ({case.solutes[int(d.controlling[i])]})",
+             f"{d.transfer_units[i, int(d.controlling[i])]:.2f} / {d.htu[i, int(d.controlling[i])]:.3f} m / "
+             f"{d.hetp[i, int(d.controlling[i])]:.3f} m", "packed"),
+            ("diameter (standard size)", f"{d.diameter[i]:.3f} m", "packed"),
+            ("fraction of flood", f"{d.fraction_of_flood[i]:.3f} (design {choice.flood_fraction:g})", "packed"),
+            ("pressure drop per metre / total", f"{d.pressure_drop_per_m[i]:.0f} Pa/m / "
+                                                f"{d.pressure_drop[i] / 1e3:.2f} kPa", "packed"),
+            ("wetting rate over the minimum", f"{d.wetting_ratio[i]:.2f}", "packed"),
+            ("height, tangent to tangent", f"{d.height[i]:.2f} m", None),
+            ("design pressure / temperature", f"{d.design_pressure[i] / 1e5:.2f} barg / "
+             f"{d.design_temperature[i] - 273.15:.0f} degC", "asme"),
+            ("shell / head thickness", f"{d.wall_thickness[i] * 1e3:.1f} mm / {d.head_thickness[i] * 1e3:.1f} mm",
+             "asme"),
+            ("shell / packing weight", f"{d.shell_weight[i] / 1e3:.2f} t / {d.packing_weight[i] / 1e3:.2f} t", None),
+            ("pump / blower shaft power", f"{d.pump_shaft_power[i] / 1e3:.2f} kW / "
+             f"{d.blower_shaft_power[i] / 1e3:.2f} kW", None),
+        ]
+    else:
+        column = _tray_column(case, d, i)
+    annual = [(spec.label, _money(d.use_cost[i, j])) for j, spec in enumerate(d.uses.specs) if not spec.credit]
+    annual += [("operating total", _money(d.operating[i])),
+               ("capital charge (capital recovery x installed)", _money(d.capital_charge[i])),
+               ("credit for recovered solute", _money(-d.credit[i]))]
+    return {"separation": separation, "column": column, "annual": annual,
+            "total_module": _money(d.total_module[i]), "installed": _money(d.installed[i]),
+            "annualized": _money(d.annualized[i])}
+
+
+def _tray_column(case, d, i: int) -> list:
+    return [
         ("tray type and spacing", f"{case.tray}, {case.tray_spacing:.3f} m", "fair"),
         ("diameter required at the design flood", f"{d.diameter_required[i]:.3f} m", "fair"),
         ("diameter (standard size)", f"{d.diameter[i]:.3f} m", "fair"),
@@ -131,13 +182,6 @@ def _sheet(case, d, i: int) -> dict:
         ("pump / blower shaft power", f"{d.pump_shaft_power[i] / 1e3:.2f} kW / {d.blower_shaft_power[i] / 1e3:.2f} kW",
          None),
     ]
-    annual = [(spec.label, _money(d.use_cost[i, j])) for j, spec in enumerate(d.uses.specs) if not spec.credit]
-    annual += [("operating total", _money(d.operating[i])),
-               ("capital charge (capital recovery x installed)", _money(d.capital_charge[i])),
-               ("credit for recovered solute", _money(-d.credit[i]))]
-    return {"separation": separation, "column": column, "annual": annual,
-            "total_module": _money(d.total_module[i]), "installed": _money(d.installed[i]),
-            "annualized": _money(d.annualized[i])}
 
 
 def _references(items: list[dict]) -> list[dict]:
@@ -178,6 +222,8 @@ def build(scenario, result, curves: list, *, source: str = "", when=None) -> dic
             + (f"at most {mole_fraction_text(case.target[k])} out" if math.isfinite(case.target[k]) else "no spec")
             for k, s in enumerate(case.solutes))),
         ("trays searched", f"{case.trays_range[0]} to {case.trays_range[1]}"),
+        *([("packed beds offered", "; ".join(c.name for c in case.packings) + f" (theoretical stages "
+            f"{case.stages_range[0]} to {case.stages_range[1]})")] if case.packings else []),
         (f"{rw} searched", f"{case.ratio_range[0]:g} to {case.ratio_range[1]:g} ({case.ratio_levels} levels)"),
         ("economics", f"interest {100 * eco.interest:g} %/yr over {eco.life:g} yr (capital recovery factor "
                       f"{eco.capital_recovery:.4f}/yr), {eco.hours:,.0f} h/yr on stream"),
@@ -190,7 +236,9 @@ def build(scenario, result, curves: list, *, source: str = "", when=None) -> dic
         "tool": records.tool_record(),
         "date": when.isoformat(timespec="seconds"),
         "accuracy": ACCURACY,
-        "headline": [("candidate", case.agents[int(d.agent[0])]), ("real trays", str(int(d.trays[0]))),
+        "headline": [("candidate", case.agents[int(d.agent[0])]),
+                     (("internals", f"{records.internals_name(case, d, 0)}, {d.packed_height[0]:.2f} m packed")
+                      if records.is_packed(d, 0) else ("real trays", str(int(d.trays[0])))),
                      (rw, texts[0]), ("diameter x height", f"{d.diameter[0]:.3f} m x {d.height[0]:.2f} m"),
                      ("installed capital", f"{_money(d.installed[0])} USD"),
                      ("total annualized cost", f"{_money(best)} USD/yr")],
@@ -200,14 +248,17 @@ def build(scenario, result, curves: list, *, source: str = "", when=None) -> dic
         "sheet": _sheet(case, d, 0),
         "ratio_word": rw,
         "factor_word": case.service.factor_word,
-        "listing": records.LISTINGS[result.distinct],
+        "count_word": "internals" if case.packings else "trays",
+        "efficiency_word": "HETP" if records.is_packed(d, 0) else "tray efficiency",
+        "listing": records.listing_meaning(case, result.distinct),
         "space_size": f"{result.space_size:,}",
         "ranked": _design_rows(case, d, best, list(range(1, len(d) + 1))),
         "per_agent": _design_rows(case, result.per_agent, best, result.per_agent_rank
                                   or list(range(1, len(result.per_agent) + 1))),
         "unmet": list(result.unmet.items()),
         "band": {"margin": f"{100 * band.margin:g}", "count": f"{band.count:,}",
-                 "rows": [{"agent": r.agent, "count": f"{r.count:,}", "trays": f"{r.trays[0]} to {r.trays[1]}",
+                 "rows": [{"agent": r.agent + (f" ({r.internals})" if case.packings else ""),
+                           "count": f"{r.count:,}", "trays": f"{r.trays[0]} to {r.trays[1]}",
                            "ratio": f"{r.ratio[0]:.3f} to {r.ratio[1]:.3f}",
                            "diameter": f"{r.diameter[0]:.3f} to {r.diameter[1]:.3f}",
                            "cost": f"{_money(r.cost[0])} to {_money(r.cost[1])}"} for r in band.by_agent]},

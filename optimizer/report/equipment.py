@@ -24,7 +24,7 @@ from pathlib import Path
 
 from towercost.models import costing
 from towercost.models.constants import GRAVITY, STANDARD_ATMOSPHERE
-from towercost.report.records import USE_UNITS, to_json
+from towercost.report.records import USE_UNITS, internals_name, packing_choice, to_json, used_rows
 
 #: The columns of the equipment list, in order: key -> heading (with its unit).
 COLUMNS = {
@@ -67,8 +67,10 @@ def _service(case) -> dict[str, str]:
     else:
         column = f"stripper: {solutes} from the liquid into the stripping gas"
         pump, blower = "liquid to treat, to the stripper top", "stripping gas, to the stripper bottom"
-    return {"vessel": column, "tray": f"internals of the {column.split(':')[0]}", "pump": pump, "blower": blower,
-            "drive": "driver", "heat_exchanger": "heat exchange", "reboiler": "reboiler"}
+    internals = f"internals of the {column.split(':')[0]}"
+    return {"vessel": column, "tray": internals, "packing": internals, "packed_distributors": internals,
+            "packed_supports": internals, "pump": pump, "blower": blower, "drive": "driver",
+            "heat_exchanger": "heat exchange", "reboiler": "reboiler"}
 
 
 def _vessel(case, d, i):
@@ -82,7 +84,7 @@ def _vessel(case, d, i):
 
 
 def _trays(case, d, i):
-    return {"type": f"{case.tray} trays",
+    return {"type": internals_name(case, d, i),
             "key_sizes": f"{int(d.trays[i])} trays, {d.diameter[i]:.3f} m diameter, {case.tray_spacing:.3f} m spacing",
             "weight_kg": float(d.tray_weight[i])}
 
@@ -102,8 +104,36 @@ def _blower(case, d, i):
                          f"rise, {d.blower_shaft_power[i] / 1000:.2f} kW shaft"}
 
 
-#: Item details by the first word of the pricing correlation's name.
-DETAILS = {"vessel": _vessel, "tray": _trays, "pump": _pump, "blower": _blower}
+def _packing(case, d, i):
+    choice = packing_choice(case, d, i)
+    return {"type": f"{choice.data['kind']}, {choice.data['material']}, {1000 * choice.data['nominal_size']:g} mm, "
+                    "dumped",
+            "key_sizes": f"{d.packing_volume[i]:.3f} m3: {d.packed_height[i]:.2f} m in {int(d.beds[i])} bed(s) of "
+                         f"{d.bed_height[i]:.2f} m, {d.diameter[i]:.3f} m diameter",
+            "weight_kg": float(d.packing_weight[i])}
+
+
+def _distributors(case, d, i):
+    beds = int(d.beds[i])
+    return {"key_sizes": f"{d.diameter[i]:.3f} m diameter: one liquid distributor, {beds - 1} redistributor(s)"}
+
+
+def _supports(case, d, i):
+    return {"key_sizes": f"{d.diameter[i]:.3f} m diameter: {int(d.beds[i])} support plate(s)"}
+
+
+#: Item details by the first word of the pricing correlation's name (a packed column's rows by their own).
+DETAILS = {"vessel": _vessel, "tray": _trays, "pump": _pump, "blower": _blower, "packing:": _packing,
+           "packed_distributors": _distributors, "packed_supports": _supports}
+
+
+def _kind(correlation: str) -> str:
+    """The first word of a correlation's name: "vessel", "tray", ...; a packed column's rows by their own."""
+    if correlation.startswith("packing:"):
+        return "packing:"
+    if correlation.startswith("packed_"):
+        return correlation
+    return correlation.split("_")[0]
 
 
 def _basis_note(correlation: str) -> str:
@@ -111,27 +141,35 @@ def _basis_note(correlation: str) -> str:
     return str(row.get("index_basis_note", ""))
 
 
+def _description(spec) -> str:
+    """What the pricing row says it prices: the cost table's description, or the row's own."""
+    own = getattr(spec, "description", None)
+    if own is not None:
+        return own
+    return costing.correlation(spec.correlation).description
+
+
 def equipment_list(case, d, i: int = 0, design_id: str | None = None) -> list[dict]:
     """One row per equipment item of design ``i`` (see ``COLUMNS``); costs at the estimate's index [USD], to the cent."""
-    from towercost.report.ids import design_id as name_of
+    from towercost.report.ids import id_of
 
     if design_id is None:
-        design_id = name_of(case.agents, int(d.agent[i]), int(d.trays[i]), float(d.rate[i]), float(d.diameter[i]))
+        design_id = id_of(case, d, i)
     eco = case.economics
     eq = d.equipment
     services = _service(case)
     rows = []
-    for j in range(len(eq.specs)):
+    for j in used_rows(d, i):
         spec = eq.spec_at(i, j)   # a row may switch correlation from one design to the next (fan or blower)
-        kind = spec.correlation.split("_")[0]
-        info = costing.correlation(spec.correlation)
+        kind = _kind(spec.correlation)
         row = dict.fromkeys(COLUMNS)
         row.update({
             "design_id": design_id, "candidate": case.agents[int(d.agent[i])], "tag": spec.tag, "item": spec.kind,
-            "service": services.get(kind, spec.kind), "type": info.description or spec.kind,
+            "service": services.get(kind.rstrip(":"), spec.kind), "type": _description(spec) or spec.kind,
             "key_sizes": f"{spec.size_basis} {float(eq.size[i, j]):.4g} {spec.size_unit}",
             "size_basis": spec.size_basis, "size": float(eq.size[i, j]), "size_unit": spec.size_unit,
-            "material": MATERIALS.get(eq.materials[j], eq.materials[j]),
+            "material": MATERIALS.get(getattr(spec, "material", "") or eq.materials[j],
+                                      getattr(spec, "material", "") or eq.materials[j]),
             "purchased_USD": float(d.purchased[i, j]), "bare_module_USD": float(d.bare_module_items[i, j]),
             "cost_basis_index": float(eq.basis[j]), "cost_basis": _basis_note(spec.correlation),
             "estimate_index": float(eco.index_to), "estimate_year": eco.index_year,

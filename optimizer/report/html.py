@@ -55,5 +55,6 @@ def report_text(scenario, result, fmt: str = "html", *, source: str = "", when=N
     from towercost.report import document
     from towercost.select.ranking import cost_curve
 
-    curves = [cost_curve(scenario, result.case.agents[int(a)]) for a in result.per_agent.agent]
+    agents = list(dict.fromkeys(int(a) for a in result.per_agent.agent))   # one curve per candidate (its trays)
+    curves = [cost_curve(scenario, result.case.agents[a]) for a in agents]
     return render(document.build(scenario, result, curves, source=source, when=when), fmt)

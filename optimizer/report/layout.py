@@ -2,8 +2,8 @@
 
 A table is a list of ``Column`` and rows of text cells. ``render`` fits it
 to a width: every value is printed whole; when the columns do not fit,
-the least needed ones (lowest ``keep``) are left out, and the one text
-column (``wrap``) wraps onto more lines. Each row may carry lines printed
+the least needed ones (lowest ``keep``) are left out, and the text columns
+that may (``wrap``) wrap onto more lines, sharing the width left. Each row may carry lines printed
 under it (a design's identifier). Units go on a second header line, so a
 label stays short and plain.
 """
@@ -23,7 +23,7 @@ class Column:
     label: str
     unit: str = ""
     left: bool = False       # text (left-aligned) rather than a number
-    wrap: bool = False       # the text column that may wrap (at most one)
+    wrap: bool = False       # a text column that may wrap
     keep: int = 10           # columns with the lowest keep are left out first when the width is short
 
 
@@ -56,17 +56,33 @@ def _fit(columns: list[Column], rows: list[Row], width: int) -> tuple[list[int],
             return shown, widths
         wrap = [k for k, j in enumerate(shown) if columns[j].wrap]
         if wrap:
-            k = wrap[0]
-            spare = width - (total(widths) - widths[k])
-            if spare >= least(shown[k]):
-                widths[k] = spare
+            spare = width - (total(widths) - sum(widths[k] for k in wrap))
+            need = [least(shown[k]) for k in wrap]
+            if spare >= sum(need):
+                _share(widths, wrap, need, spare)
                 return shown, widths
         droppable = [j for j in shown if columns[j].keep < 10]
         if not droppable:
-            if wrap:
-                widths[wrap[0]] = least(shown[wrap[0]])
+            for k in wrap:
+                widths[k] = least(shown[k])
             return shown, widths
         shown.remove(min(droppable, key=lambda j: (columns[j].keep, -j)))
+
+
+def _share(widths: list[int], wrap: list[int], need: list[int], spare: int) -> None:
+    """Give the wrapping columns ``spare`` characters: each its least, the rest in proportion to what it lacks."""
+    lack = [widths[k] - n for k, n in zip(wrap, need)]
+    extra = spare - sum(need)
+    given = [n + (extra * l // sum(lack) if sum(lack) else 0) for n, l in zip(need, lack)]
+    left = spare - sum(given)
+    for i in sorted(range(len(wrap)), key=lambda i: -lack[i]):
+        if left <= 0:
+            break
+        add = min(left, widths[wrap[i]] - given[i])
+        given[i] += max(add, 0)
+        left -= max(add, 0)
+    for k, w in zip(wrap, given):
+        widths[k] = min(w, widths[k])
 
 
 def shown(columns: list[Column], rows: list[Row], width: int) -> list[str]:

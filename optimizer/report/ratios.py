@@ -49,8 +49,9 @@ def ratio_texts(case, designs) -> list[str]:
     candidates = [[rounded_up(ratio[i], int(k)) for k in steps] for i in finite]
     typed = np.array([[float(t) for t in row] for row in candidates])              # (m, steps)
     pick = np.repeat(finite, steps.size)
+    internals = designs.internals[pick] if "internals" in designs.figures else None
     tried = SingleColumn(case).evaluate(designs.agent[pick], designs.trays[pick],
-                                        typed.ravel() * designs.rate_min[pick], designs.diameter[pick])
+                                        typed.ravel() * designs.rate_min[pick], designs.diameter[pick], internals)
     same = (tried.meets_spec & (np.abs(tried.annualized - designs.annualized[pick]) < SAME_COST)
             ).reshape(finite.size, steps.size)
     for row, i in enumerate(finite):
@@ -77,6 +78,11 @@ def miss_note(case, designs, typed: float | None) -> str | None:
     if bool(designs.meets_spec[0]):
         return None
     word = case.service.ratio_word
+    from towercost.report.records import is_packed
+
+    if is_packed(designs, 0):
+        return (f"no packed height meets the spec at this rate: it is at or below the least rate with unlimited "
+                f"stages ({word} 1); give a larger {word}")
     a, trays = int(designs.agent[0]), int(designs.trays[0])
     least = least_ratio(case, a, trays)
     if not math.isfinite(least):

@@ -13,7 +13,7 @@ import math
 
 import numpy as np
 
-from towercost.design.internals import TRAY_TYPES
+from towercost.design.internals import FIRST_PACKING, TRAY_TYPES
 from towercost.models import hydraulics
 
 CAUTION = (
@@ -25,14 +25,37 @@ CAUTION = (
 KMOL_H = 3.6  # mol/s -> kmol/h
 
 
+def is_packed(d, i: int) -> bool:
+    """Design ``i`` is a packed bed."""
+    return "internals" in d.figures and int(d.internals[i]) >= FIRST_PACKING
+
+
+def packing_choice(case, d, i: int):
+    """The ``PackingChoice`` of packed design ``i``."""
+    return case.packings[int(d.internals[i]) - FIRST_PACKING]
+
+
+def internals_name(case, d, i: int) -> str:
+    """'sieve trays', 'valve trays', or the packing's name."""
+    if is_packed(d, i):
+        return packing_choice(case, d, i).name
+    return f"{TRAY_TYPES[int(d.tray_type[i])]} trays"
+
+
+def used_rows(d, i: int) -> list[int]:
+    """The equipment rows that are part of design ``i`` (a tray design has no packing, a packed one no trays)."""
+    eq = d.equipment
+    return [j for j in range(len(eq.specs)) if not eq.spec_at(i, j).correlation.startswith("unused:")]
+
+
 def equipment_rows(case, d, i: int = 0) -> list[dict]:
     """One row per equipment item of design ``i``: tag, kind, size basis, costs, correlation, range held."""
     eq = d.equipment
     rows = []
-    for j in range(len(eq.specs)):
+    for j in used_rows(d, i):
         spec = eq.spec_at(i, j)   # a row may switch correlation from one design to the next (fan or blower)
         rows.append({
-            "tag": spec.tag, "item": spec.key, "kind": spec.kind, "material": eq.materials[j],
+            "tag": spec.tag, "item": spec.key, "kind": spec.kind, "material": getattr(spec, "material", "") or eq.materials[j],
             "size_basis": spec.size_basis, "size": float(eq.size[i, j]), "size_unit": spec.size_unit,
             "purchased_USD": float(d.purchased[i, j]), "bare_module_USD": float(d.bare_module_items[i, j]),
             "cost_basis_index": float(eq.basis[j]), "correlation": spec.correlation,
@@ -59,10 +82,14 @@ def tool_record() -> dict:
 
 def conditions_record(case) -> dict:
     """The case's conditions and search ranges, as read (SI)."""
-    return {"name": case.name, "mode": case.mode, "agents": list(case.agents),
-            "solutes": list(case.solutes), "feed_flow_mol_s": case.feed_flow,
-            "temperature_K": case.temperature, "pressure_Pa": case.pressure,
-            "trays_range": list(case.trays_range), "ratio_range": list(case.ratio_range)}
+    record = {"name": case.name, "mode": case.mode, "agents": list(case.agents),
+              "solutes": list(case.solutes), "feed_flow_mol_s": case.feed_flow,
+              "temperature_K": case.temperature, "pressure_Pa": case.pressure,
+              "trays_range": list(case.trays_range), "ratio_range": list(case.ratio_range)}
+    if case.packings:
+        record.update(internals=(["trays"] if case.offer_trays else []) + [c.name for c in case.packings],
+                      stages_range=list(case.stages_range))
+    return record
 
 
 def economics_record(case) -> dict:
@@ -86,6 +113,8 @@ def limit_rows(case, d, i: int = 0) -> list[dict]:
 
     rows = []
     for limit in d.limits or limit_table(case, d):
+        if not bool(limit.applies[i]):     # a limit of other internals
+            continue
         value, bound = float(limit.values[i]), float(limit.bound)
         sign = -1.0 if limit.name == "ratio_low" else 1.0          # stated as -ratio <= -low
         rows.append({"limit": limit.name, "label": limit.label, "value": sign * value, "bound": sign * bound,
@@ -130,8 +159,10 @@ def utilities_summary(d, i: int = 0) -> list[dict]:
     return rows
 
 
-def operating_range(case, d, i: int = 0) -> dict:
-    """The tray's operating range at design ``i``: each limit's figure, the limit, and which governs."""
+def operating_range(case, d, i: int = 0) -> dict | None:
+    """The tray's operating range at design ``i``: each limit's figure, the limit, and which governs (None: packed)."""
+    if is_packed(d, i):
+        return None
     return {
         "turndown": case.turndown,
         "weep_ratio": float(d.weep_ratio[i]), "weep_ratio_min": 1.0,
@@ -178,15 +209,62 @@ def concentration_fields(case, a: int, s: int, inlet: float, outlet: float, spec
     }
 
 
+#: Why a packed bed's capacity and pressure drop are indicative where the packing's constants are estimates.
+ESTIMATED_CONSTANTS = ("its Stichlmair constants C1..C3 are estimates, not read from the paper's table "
+                       "(models/data/packings.toml): its diameter, fraction of flood and pressure drop are indicative")
+
+
+def packed_record(case, d, i: int) -> dict:
+    """The packed bed of design ``i``: packing, beds, transfer units, HETP, capacity, pressure drop, wetting."""
+    choice = packing_choice(case, d, i)
+    data = choice.data
+    strip = not case.service.agent_is_liquid
+    given = ("hetp" if choice.hetp is not None else "h_og" if choice.h_og is not None
+             else "h_ol" if choice.h_ol is not None else None)
+    return {
+        "packing": choice.name, "row": choice.key, "kind": data["kind"], "material": data["material"],
+        "nominal_size_m": data["nominal_size"], "specific_area_m2_m3": data["specific_area"],
+        "voidage": data["voidage"],
+        "stichlmair_constants": [data["stichlmair_c1"], data["stichlmair_c2"], data["stichlmair_c3"]],
+        "stichlmair_constants_basis": ("read from the source" if choice.constants_checked
+                                       else "estimate: " + ESTIMATED_CONSTANTS),
+        "stichlmair_source": data["stichlmair_source"],
+        "heights_from": (f"given {given} in the scenario" if given else
+                         "Onda, Takeuchi and Okumoto (1968) film heights, H_OG = H_G + lambda H_L"),
+        "packed_height_m": float(d.packed_height[i]), "beds": int(d.beds[i]), "bed_height_m": float(d.bed_height[i]),
+        "redistributors": int(d.beds[i]) - 1, "max_bed_height_m": choice.max_bed_height,
+        "transfer_units_basis": "N_OL, H_OL (liquid phase)" if strip else "N_OG, H_OG (gas phase)",
+        "per_solute": {name: {"theoretical_stages": float(d.stages[i, s]),
+                              "stages_needed": float(d.stages_needed[i, s]),
+                              "transfer_units": float(d.transfer_units[i, s]), "htu_m": float(d.htu[i, s]),
+                              "hetp_m": float(d.hetp[i, s]), "film_gas_htu_m": float(d.film_gas_htu[i, s]),
+                              "film_liquid_htu_m": float(d.film_liquid_htu[i, s])}
+                       for s, name in enumerate(case.solutes)},
+        "wetted_area_m2_m3": float(d.wetted_area[i]),
+        "design_fraction_of_flood": choice.flood_fraction, "fraction_of_flood": float(d.fraction_of_flood[i]),
+        "pressure_drop_limit_Pa_m": choice.pressure_drop_per_m,
+        "pressure_drop_Pa_m": float(d.pressure_drop_per_m[i]),
+        "diameter_at_design_flood_m": float(d.diameter_flooding[i]),
+        "diameter_at_pressure_limit_m": float(d.diameter_pressure_drop[i]),
+        "wetting_ratio": float(d.wetting_ratio[i]), "diameter_over_packing_size": float(d.diameter_ratio[i]),
+        "min_diameter_over_packing_size": data["min_diameter_ratio"],
+        "max_temperature_K": data["max_temperature"],
+        "packing_volume_m3": float(d.packing_volume[i]), "packing_weight_kg": float(d.packing_weight[i]),
+        "price_USD_per_m3_at_basis": choice.price_per_m3, "price_index_basis": choice.price_index_basis,
+        "price_source": "given in the scenario" if choice.price_given else data["price_source"],
+    }
+
+
 def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict:
     """One design as plain data (SI units, names spelled out) for JSON and CSV.
 
     ``ratio_text`` is the ratio as printed (``towercost.report.ratios``).
     """
     from towercost.models.constants import GRAVITY
-    from towercost.report.ids import design_id
+    from towercost.report.ids import id_of
 
     a = int(d.agent[i])
+    packed = is_packed(d, i)
     solutes = {}
     for s, name in enumerate(case.solutes):
         inlet = float(case.feed_in[s])
@@ -198,7 +276,7 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
             "fraction_removed": 1.0 - out / inlet if inlet > 0 else None,
             "factor": float(d.factor[i, s]),
             "theoretical_stages": float(d.stages[i, s]),
-            "tray_efficiency": float(d.efficiency[i, s]),
+            "tray_efficiency": None if packed else float(d.efficiency[i, s]),
             "k_value": float(case.k_value[a, s]),
             "agent_outlet_mole_fraction": float(d.agent_outlet[i, s]),
             "agent_inlet_mole_fraction": float(case.lean[a, s]),
@@ -212,8 +290,9 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
     feed_mass = d.gas_mass_flow[i] if case.service.agent_is_liquid else d.liquid_mass_flow[i]
     rho_liquid = float(d.liquid_mass_flow[i] / d.liquid_volumetric_flow[i]) if d.liquid_volumetric_flow[i] > 0 else None
     return {
-        "design_id": design_id(case.agents, a, int(d.trays[i]), float(d.rate[i]), float(d.diameter[i])),
+        "design_id": id_of(case, d, i),
         "agent": case.agents[a],
+        **({"internals": internals_name(case, d, i)} if case.packings else {}),
         "trays": int(d.trays[i]),
         "rate_mol_s": float(d.rate[i]),
         "minimum_rate_mol_s": float(d.rate_min[i]),
@@ -244,14 +323,14 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
             "fraction_of_flood": float(d.fraction_of_flood[i]),
             "flow_parameter": float(d.flow_parameter[i]),
             "height_m": float(d.height[i]),
-            "tray_spacing_m": case.tray_spacing,
-            "tray_type": TRAY_TYPES[int(d.tray_type[i])],
+            "tray_spacing_m": None if packed else case.tray_spacing,
+            "tray_type": None if packed else TRAY_TYPES[int(d.tray_type[i])],
             "tray_type_asked": case.tray,
             "diameter_flooding_m": float(d.diameter_flooding[i]),
             "diameter_least_m": float(d.diameter_least[i]),
             "diameter_governs": "downcomer" if d.diameter_least[i] > d.diameter_flooding[i] else "flooding",
             "operating_range": operating_range(case, d, i),
-            "pressure_drop_per_tray_Pa": float(d.pressure_drop_per_tray[i]),
+            "pressure_drop_per_tray_Pa": None if packed else float(d.pressure_drop_per_tray[i]),
             "pressure_drop_Pa": float(d.pressure_drop[i]),
             "design_pressure_Pa_gauge": float(d.design_pressure[i]),
             "design_temperature_K": float(d.design_temperature[i]),
@@ -267,6 +346,7 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
             "existing_shell": None if case.shell_diameter is None else {
                 "diameter_m": case.shell_diameter, "modification_allowance": case.shell_modification},
             "drive_enclosure": case.drive_enclosure,
+            **({"packed": packed_record(case, d, i) if packed else None} if case.packings else {}),
         },
         "utilities": {
             "pump_shaft_power_W": float(d.pump_shaft_power[i]),
@@ -302,6 +382,14 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
 LISTINGS = {"trays": "one design per candidate and tray count, at its best rate and diameter",
             "variant": "every rate and diameter variant",
             "candidate": "one design per candidate"}
+
+def listing_meaning(case, distinct: str) -> str:
+    """What a listing holds, in words; with packed beds offered, a design's internals tell groups apart too."""
+    if case.packings and distinct == "trays":
+        return ("one design per candidate, internals and tray count (a packed bed: theoretical stages), at its best "
+                "rate and diameter")
+    return LISTINGS[distinct]
+
 
 #: Solver figures that say how an answer was found and how long it took: only with --verbose or in saved reports.
 DIAGNOSTIC_KEYS = ("binaries", "solves", "solver")
@@ -346,12 +434,13 @@ def result_record(result, *, verbose: bool = True) -> dict:
         "tool": tool_record(),
         "scenario": conditions_record(case),
         "economics": economics_record(case),
-        "listing": {"distinct": result.distinct, "meaning": LISTINGS[result.distinct]},
+        "listing": {"distinct": result.distinct, "meaning": listing_meaning(case, result.distinct)},
         "best": alternatives[0],
         "alternatives": alternatives,
         "band": {"margin": band.margin, "designs": band.count, "trays": list(band.trays),
                  "ratio_to_minimum": list(band.ratio), "agents": band.agents,
-                 "per_agent": [{"agent": r.agent, "designs": r.count, "trays": list(r.trays),
+                 "per_agent": [{"agent": r.agent, **({"internals": r.internals} if case.packings else {}),
+                                "designs": r.count, "trays": list(r.trays),
                                 "ratio_to_minimum": list(r.ratio), "diameter_m": list(r.diameter),
                                 "annualized_cost_USD_per_yr": list(r.cost)} for r in band.by_agent]},
         "per_agent_best": per_agent,
@@ -386,7 +475,8 @@ def alternatives_frame(result):
     rows = []
     for i in range(len(d)):
         row = {
-            "rank": i + 1, "design_id": names[i], "agent": case.agents[int(d.agent[i])], "trays": int(d.trays[i]),
+            "rank": i + 1, "design_id": names[i], "agent": case.agents[int(d.agent[i])],
+            **({"internals": internals_name(case, d, i)} if case.packings else {}), "trays": int(d.trays[i]),
             "ratio_to_minimum": float(d.ratio[i]), "ratio_to_minimum_text": texts[i],
             "rate_mol_s": float(d.rate[i]), "rate_kmol_h": float(d.rate[i]) * KMOL_H,
             "diameter_m": float(d.diameter[i]), "height_m": float(d.height[i]),

@@ -15,7 +15,8 @@ from towercost.design.internals import TRAY_TYPES
 from towercost.design.limits import SPEC_TOLERANCE
 from towercost.models import hydraulics
 from towercost.report import layout, ratios
-from towercost.report.records import CAUTION, KMOL_H, design_basis
+from towercost.report.records import (CAUTION, KMOL_H, design_basis, internals_name, is_packed, packing_choice,
+                                      used_rows)
 from towercost.scenario.units import mole_fraction_text
 
 
@@ -108,7 +109,10 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
         status += "; outside a scenario limit"
     ratio = ratios.ratio_texts(case, d)[0]
     console.print(title, style="bold", markup=False, highlight=False)
-    console.print(f"{case.agents[a]}: {int(d.trays[i])} real trays, {rw} {ratio}, "
+    packed = is_packed(d, i)
+    internals = (f"{internals_name(case, d, i)}, {d.packed_height[i]:.2f} m packed in {int(d.beds[i])} "
+                 f"bed{'s' if int(d.beds[i]) > 1 else ''}" if packed else f"{int(d.trays[i])} real trays")
+    console.print(f"{case.agents[a]}: {internals}, {rw} {ratio}, "
                   f"rate {d.rate[i] * KMOL_H:,.3f} kmol/h (minimum {d.rate_min[i] * KMOL_H:,.3f}); {status}",
                   markup=False, highlight=False)
     console.print(f"design ID {ids_of(case, d)[0]}", markup=False, highlight=False)
@@ -119,24 +123,41 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
 
     control = int(d.controlling[i])
     _title(console, "Separation")
+    unit = "OL" if case.mode == "strip" else "OG"
+    middle = ([layout.Column(f"N_{unit}", keep=4), layout.Column(f"H_{unit}", "m", keep=4),
+               layout.Column("HETP", "m", keep=4)] if packed else [layout.Column("tray eff.", keep=4)])
     columns = [layout.Column("solute", left=True, wrap=True), layout.Column("K"), layout.Column(fw),
-               layout.Column("stages", "theor."), layout.Column("tray eff.", keep=4), layout.Column("inlet", keep=6),
+               layout.Column("stages", "theor."), *middle, layout.Column("inlet", keep=6),
                layout.Column("outlet"), layout.Column("spec"), layout.Column("removed", "%", keep=5)]
     rows = []
     for s, name in enumerate(case.solutes):
         inlet, out, target = case.feed_in[s], d.outlet[i, s], case.target[s]
         mark = "" if out <= target * (1 + SPEC_TOLERANCE) else " (misses)"
+        own = ([f"{d.transfer_units[i, s]:.2f}", f"{d.htu[i, s]:.3f}", f"{d.hetp[i, s]:.3f}"] if packed
+               else [f"{d.efficiency[i, s]:.3f}"])
         rows.append(layout.Row([name + (" (controls)" if s == control else ""), f"{case.k_value[a, s]:.4g}",
-                                f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}", f"{d.efficiency[i, s]:.3f}",
+                                f"{d.factor[i, s]:.3f}", f"{d.stages[i, s]:.2f}", *own,
                                 concentration_text(case, s, inlet), concentration_text(case, s, out) + mark,
                                 concentration_text(case, s, target),
                                 f"{100 * (1 - out / inlet):.3f}" if inlet > 0 else "-"]))
     _lines(console, columns, rows)
-    console.print(f"tray efficiency = theoretical stages / {int(d.trays[i])} real trays; {case.solutes[control]} "
-                  f"controls (its outlet is {100 * d.outlet[i, control] / case.target[control]:.1f} % of its spec)",
-                  markup=False, highlight=False)
+    share = f"{case.solutes[control]} controls (its outlet is {100 * d.outlet[i, control] / case.target[control]:.1f} % of its spec)"
+    if packed:
+        console.print(f"packed height = max over solutes of the stages its spec needs x HETP = N_{unit} x H_{unit}; "
+                      f"theoretical stages = packed height / HETP; {share}", markup=False, highlight=False)
+    else:
+        console.print(f"tray efficiency = theoretical stages / {int(d.trays[i])} real trays; {share}",
+                      markup=False, highlight=False)
 
     _title(console, "Column (estimating figures, not a mechanical design)")
+    if packed:
+        _packed_pairs(console, case, d, i)
+    else:
+        _tray_pairs(console, case, d, i)
+    _costs(console, case, d, i, warnings)
+
+
+def _tray_pairs(console: Console, case, d, i: int) -> None:
     tray = TRAY_TYPES[int(d.tray_type[i])]
     tray_note = "" if tray == case.tray else f" (in place of {case.tray} trays, outside their operating range here)"
     flooding, least = d.diameter_flooding[i], d.diameter_least[i]
@@ -168,11 +189,51 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
     _lines(console, [layout.Column("item", left=True), layout.Column("value", left=True, wrap=True)],
            [layout.Row(list(p)) for p in pairs])
 
+
+def _packed_pairs(console: Console, case, d, i: int) -> None:
+    choice = packing_choice(case, d, i)
+    data = choice.data
+    redistributors = int(d.beds[i]) - 1
+    given = ("given HETP" if choice.hetp is not None else "given H_OG" if choice.h_og is not None
+             else "given H_OL" if choice.h_ol is not None else "Onda film heights")
+    flood_at = d.diameter_flooding[i]
+    pressure_at = d.diameter_pressure_drop[i]
+    constants = "read from the source" if choice.constants_checked else "ESTIMATES (see the warnings)"
+    pairs = [
+        ("packing", f"{choice.name}: {data['kind']}, {data['material']}, {1000 * data['nominal_size']:g} mm; "
+                    f"a {data['specific_area']:g} m2/m3, voidage {data['voidage']:g}; Stichlmair constants "
+                    f"{constants}"),
+        ("packed height / beds", f"{d.packed_height[i]:.2f} m in {int(d.beds[i])} bed(s) of {d.bed_height[i]:.2f} m "
+                                 f"(at most {choice.max_bed_height:g} m), {redistributors} redistributor(s); "
+                                 f"heights from {given}"),
+        ("least shell: design flood / pressure limit", f"{flood_at:.3f} m / {pressure_at:.3f} m (diameter at "
+                                                       f"{choice.pressure_drop_per_m:.4g} Pa/m); least "
+                                                       f"{d.diameter_least[i]:.3f} m"),
+        ("diameter (standard size)", f"{d.diameter[i]:.3f} m, {d.diameter_ratio[i]:.1f} packing sizes across "
+                                     f"(at least {data['min_diameter_ratio']:g})"),
+        ("fraction of flood", f"{d.fraction_of_flood[i]:.3f} (design at most {choice.flood_fraction:g})"),
+        ("pressure drop per metre / total", f"{d.pressure_drop_per_m[i]:.0f} Pa/m (at most "
+                                            f"{choice.pressure_drop_per_m:.4g}) / {d.pressure_drop[i] / 1000:.2f} kPa"),
+        ("wetting rate", f"{d.wetting_ratio[i]:.2f} x the minimum (Morris and Jackson; at least 1)"),
+        ("height, tangent to tangent", f"{d.height[i]:.2f} m"),
+        ("design pressure", f"{d.design_pressure[i] / 1e5:.2f} barg, {design_basis(case)[0]}"),
+        ("design temperature", f"{d.design_temperature[i] - 273.15:.0f} degC, {design_basis(case)[1]} (packing "
+                               f"at most {data['max_temperature'] - 273.15:.0f} degC)"),
+        ("shell / head thickness", f"{d.wall_thickness[i] * 1000:.1f} mm / {d.head_thickness[i] * 1000:.1f} mm ({case.material})"),
+        ("shell / heads / packing weight", f"{d.shell_weight[i] / 1000:.2f} t / {d.head_weight[i] / 1000:.2f} t / "
+                                           f"{d.packing_weight[i] / 1000:.2f} t"),
+        ("pump / blower shaft power", f"{d.pump_shaft_power[i] / 1000:.2f} kW / {d.blower_shaft_power[i] / 1000:.2f} kW"),
+    ]
+    _lines(console, [layout.Column("item", left=True), layout.Column("value", left=True, wrap=True)],
+           [layout.Row(list(p)) for p in pairs])
+
+
+def _costs(console: Console, case, d, i: int, warnings: list[str]) -> None:
     eco = case.economics
     index_note = f"cost index {eco.index_to:g}" + (f" ({eco.index_year})" if eco.index_year else "")
     _title(console, f"Capital, USD at {index_note}")
     rows = []
-    for j in range(len(d.equipment.specs)):
+    for j in used_rows(d, i):
         spec = d.equipment.spec_at(i, j)
         rows.append(layout.Row([f"{spec.tag} {spec.kind}", _money(d.purchased[i, j]), _money(d.bare_module_items[i, j])]))
     rows.append(layout.Row(["total module (with contingency and fee)", "", _money(d.total_module[i])]))
@@ -203,8 +264,14 @@ def print_warnings(console: Console, warnings: list[str]) -> None:
 
 
 def _trays_text(case, designs, i: int) -> str:
-    """Real trays, with the tray type where it is not the one the scenario asked for."""
+    """Real trays, with the tray type where it is not the one the scenario asked for; a packed bed's name,
+    packed height and beds where the case offers packings."""
+    if is_packed(designs, i):
+        beds = int(designs.beds[i])
+        return f"{internals_name(case, designs, i)}, {designs.packed_height[i]:.1f} m in {beds} bed{'s' * (beds > 1)}"
     tray = TRAY_TYPES[int(designs.tray_type[i])]
+    if case.packings:
+        return f"{int(designs.trays[i])} {tray} trays"
     return f"{int(designs.trays[i])}" + ("" if tray == case.tray else f" {tray}")
 
 
@@ -228,7 +295,8 @@ def _ranking_rows(case, designs, best: float, key: int, ranks: list[int]) -> lis
 
 def _ranking_columns(case, solute: str) -> list[layout.Column]:
     rw, fw = _ratio_word(case), _factor_word(case)
-    return [layout.Column("#"), layout.Column("candidate", left=True, wrap=True), layout.Column("trays"),
+    trays = layout.Column("internals", left=True, wrap=True, keep=10) if case.packings else layout.Column("trays")
+    return [layout.Column("#"), layout.Column("candidate", left=True, wrap=True), trays,
             layout.Column(rw), layout.Column("N", keep=3), layout.Column(fw, keep=3),
             layout.Column("diameter", "m", keep=8), layout.Column("height", "m", keep=5),
             layout.Column("installed", "kUSD", keep=7), layout.Column("capital charge", "kUSD/yr", keep=2),
@@ -238,7 +306,7 @@ def _ranking_columns(case, solute: str) -> list[layout.Column]:
 
 def print_ranking(console: Console, result, *, verbose: bool = False) -> None:
     """Ranked alternatives, per-candidate best, near-optimal band per candidate; solver figures when verbose."""
-    from towercost.report.records import LISTINGS, controlling
+    from towercost.report.records import controlling, listing_meaning
 
     case, d = result.case, result.designs
     rw, fw = _ratio_word(case), _factor_word(case)
@@ -246,12 +314,13 @@ def print_ranking(console: Console, result, *, verbose: bool = False) -> None:
     solute = case.solutes[int(d.controlling[0])]   # the solute the best design's spec holds
     key = case.solutes.index(solute)
     console.print(f"{case.name}: the {len(d)} best of {result.space_size:,} alternatives "
-                  f"({LISTINGS[result.distinct]})", style="bold", markup=False, highlight=False)
+                  f"({listing_meaning(case, result.distinct)})", style="bold", markup=False, highlight=False)
     columns = _ranking_columns(case, solute)
     _title(console, "Ranked designs")
     labels = set(_lines(console, columns, _ranking_rows(case, d, best, key, list(range(1, len(d) + 1)))))
 
-    _title(console, "Best design of each candidate (# is its rank in the full listing)")
+    each = "candidate and internals" if case.packings else "candidate"
+    _title(console, f"Best design of each {each} (# is its rank in the full listing)")
     _lines(console, columns, _ranking_rows(case, result.per_agent, best, key, result.per_agent_rank
                                            or list(range(1, len(result.per_agent) + 1))))
     for name, why in result.unmet.items():
@@ -263,7 +332,7 @@ def print_ranking(console: Console, result, *, verbose: bool = False) -> None:
                     layout.Column("trays"), layout.Column(rw), layout.Column("diameter", "m"),
                     layout.Column("total", "kUSD/yr")]
     _lines(console, band_columns, [layout.Row([
-        r.agent, f"{r.count:,}", f"{r.trays[0]}-{r.trays[1]}",
+        r.agent + (f" ({r.internals})" if case.packings else ""), f"{r.count:,}", f"{r.trays[0]}-{r.trays[1]}",
         f"{r.ratio[0]:.3f}-{r.ratio[1]:.3f}", f"{r.diameter[0]:.3f}-{r.diameter[1]:.3f}",
         f"{r.cost[0] / 1e3:,.1f}-{r.cost[1] / 1e3:,.1f}"]) for r in b.by_agent])
 
@@ -273,9 +342,13 @@ def print_ranking(console: Console, result, *, verbose: bool = False) -> None:
     legend = [
         (rw, rw, f"{case.service.agent_word} rate over the least rate with unlimited stages, rounded up to the "
                  "digits that give the same design when typed back"),
-        ("N", "N", f"theoretical stages for {solute}, the solute whose spec binds"),
+        ("N", "N", f"theoretical stages for {solute}, the solute whose spec binds (a packed bed: its height over "
+                   "the HETP)"),
         ("trays", "trays", f"real trays ({case.tray} unless the tray type is named: the other type is priced where "
                            f"{case.tray} trays fall outside their operating range)"),
+        ("internals", "internals", f"real trays and their type ({case.tray}, or valve where {case.tray} trays fall "
+                                   "outside their operating range), or a packed bed: its packing, packed height and "
+                                   "beds (the least height meeting every spec at its rate and shell)"),
         (fw, fw, f"{case.service.factor_name} for {solute}"),
         ("installed", "installed", f"grassroots capital with auxiliary facilities, at {index_note}"),
         ("capital charge", "capital charge", f"capital recovery factor {eco.capital_recovery:.4f}/yr x installed"),
@@ -324,14 +397,17 @@ def print_equipment(console: Console, rows: list[dict], utilities: list[dict], t
 
 def print_curve(console: Console, curve) -> None:
     rw = _ratio_word(curve.case)
-    t = _table(f"{_text(curve.agent)}: annualized cost against trays (best rate at each)", "trays", rw,
+    with_beds = getattr(curve, "internals", "trays") != "trays"
+    count = "stages" if with_beds else "trays"
+    who = _text(f"{curve.agent}, {curve.internals}" if with_beds else curve.agent)
+    t = _table(f"{who}: annualized cost against {count} (best rate at each)", count, rw,
                "diam. m", "installed USD", "annualized USD/yr", right=(0, 1, 2, 3, 4))
     for i in range(len(curve.by_trays)):
         d = curve.by_trays
         t.add_row(str(int(d.trays[i])), f"{d.ratio[i]:.3f}", f"{d.diameter[i]:.3f}", _money(d.installed[i]),
                   _money(d.annualized[i]))
     console.print(t)
-    t = _table(f"{_text(curve.agent)}: annualized cost against {rw} (best trays at each level)", rw, "trays",
+    t = _table(f"{who}: annualized cost against {rw} (best {count} at each level)", rw, count,
                "diam. m", "installed USD", "annualized USD/yr", right=(0, 1, 2, 3, 4))
     for i in range(len(curve.by_ratio)):
         d = curve.by_ratio

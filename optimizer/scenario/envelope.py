@@ -258,7 +258,7 @@ MOLAR_FLOW = E("feed flow (molar, mass or volume)", "mol/s", "kmol/h", 0.0, 1e7,
                usual=(1.0, 1e5), example=900.0)
 MOLAR_MASS = E("molar mass", "kg/mol", "g/mol", 1.0, 1e5, usual=(2.0, 1000.0), example=29.0)
 DENSITY = E("liquid density", "kg/m^3", "kg/m3", 50.0, 25000.0, usual=(500.0, 2000.0), example=1000.0)
-VISCOSITY = E("liquid viscosity", "Pa*s", "cP", 0.01, 1e5, usual=(0.1, 100.0), example=1.0)
+VISCOSITY = E("viscosity", "Pa*s", "cP", 0.001, 1e5, usual=(0.005, 100.0), example=1.0)   # gases about 0.01-0.03 cP
 SURFACE_TENSION = E("surface tension", "N/m", "mN/m", 0.1, 2000.0, usual=(5.0, 100.0), example=30.0)
 AGENT_PRICE = E("price per mass", "USD/kg", "USD/kg", 0.0, 1e4, usual=(0.0, 50.0), example=1.1)
 SOLUTE_CREDIT = E("value of recovered solute", "USD/kg", "USD/kg", 0.0, 1e4, usual=(0.0, 50.0), example=0.5)
@@ -310,6 +310,17 @@ TURNDOWN = E("lowest loads over design loads (turndown)", "", "", 0.05, 1.0, usu
 MODIFICATION = E("modification allowance, fraction of a new shell's bare-module cost", "", "", 0.0, 2.0,
                  usual=(0.0, 0.5))
 SHELL_TRAYS = E("trays the existing shell holds", "", "", 1, 1000, integer=True)
+DIFFUSIVITY = E("diffusivity of a solute", "m^2/s", "m2/s", 0.0, 1e-2, low_open=True, usual=(1e-11, 1e-4),
+                example=1e-9)   # liquids about 1e-10 to 5e-9, gases 5e-6 to 5e-5 m2/s
+PRESSURE_GRADIENT = E("pressure drop per metre of packing", "Pa/m", "Pa/m", 0.0, 1e5, low_open=True,
+                      usual=(40.0, 1200.0), example=400.0)
+PRESSURE_DROP_LIMIT = E("gas pressure-drop limit", "Pa", "kPa", 0.0, 1e5, low_open=True, example=10.0)
+TRANSFER_HEIGHT = E("height of a transfer unit or HETP", "m", "m", 0.0, 100.0, low_open=True, usual=(0.1, 5.0),
+                    example=0.6)
+BED_HEIGHT = E("height of one packed bed", "m", "m", 0.0, 100.0, low_open=True, usual=(1.0, 12.0), example=6.0)
+PACKING_PRICE = E("packing price per packed volume", "USD/m^3", "USD/m3", 0.0, 1e6, usual=(50.0, 30000.0),
+                  example=1500.0)
+STAGES = E("theoretical stages", "", "", 1, 1000, integer=True)
 COST_YEAR = E("cost-index year", "", "", 1950, 2100, integer=True)
 
 

@@ -15,6 +15,11 @@ K-values) are bare numbers.
 ``[[solvent]]``     (absorb) or ``[[stripping_gas]]`` (strip): the candidates,
                     each with ``[...k]`` K-values per solute and its prices
 ``[column]``        tray type, spacing, flood fraction, efficiency, material, limits
+``[[packing]]``     optional: packed beds offered beside the trays, each a row of
+                    ``models/data/packings.toml`` with its design fraction of flood,
+                    pressure-drop limit per metre, limits and an optional given H_OG,
+                    H_OL or HETP; diffusivities of the solutes then come with the feed
+                    and the candidates (``[feed.diffusivity]``, ``[solvent.diffusivity]``)
 ``[economics]``     interest, life, hours, utility prices, cost index, factors, caps
 ``[uncertainty]``   optional: how far each input may be off (distributions of factors on the
                     nominal K-values, efficiencies, prices and cost index), samples, seed,
@@ -45,6 +50,7 @@ from pydantic import (AfterValidator, BaseModel, ConfigDict, Field, PrivateAttr,
                       model_validator)
 
 from towercost.models import defaults
+from towercost.models import packing as packing_data
 from towercost.models.equilibrium import HENRY_SCALES
 from towercost.scenario import concentration as conc
 from towercost.scenario import envelope as env
@@ -96,6 +102,9 @@ Price = quantity(env.AGENT_PRICE)
 
 #: A spread parameter of the uncertainty study: a finite number >= 0 (a factor's spread has no unit).
 NonNegative = Annotated[float, Field(ge=0, allow_inf_nan=False)]
+Diffusivity = quantity(env.DIFFUSIVITY)
+PressureGradient = quantity(env.PRESSURE_GRADIENT)
+TransferHeight = quantity(env.TRANSFER_HEIGHT)
 
 
 def _described(text: str) -> Any:
@@ -128,8 +137,11 @@ class Feed(_Table):
         max_length=MAX_SOLUTES, description="solute concentrations in the feed: a gas by volume (ppmv, ppbv, %), "
         "a liquid by mass or per volume (ppmw, mg/L, ug/L) or a mole fraction")
     density: Annotated[Density | None, _described("liquid feed only")] = None  # [kg/m3]
-    viscosity: Annotated[Viscosity | None, _described("liquid feed only")] = None  # [Pa s]
+    viscosity: Annotated[Viscosity | None, _described(
+        "of the feed's phase: a liquid feed's; a gas feed's where [[packing]] is offered")] = None  # [Pa s]
     surface_tension: Annotated[SurfaceTension | None, _described("liquid feed only")] = None  # [N/m]
+    diffusivity: dict[Annotated[str, Field(min_length=1, max_length=MAX_NAME)], Diffusivity] = Field(
+        {}, max_length=MAX_SOLUTES, description="of each solute in the feed's phase, for packed beds (Onda)")  # [m2/s]
 
     @model_validator(mode="before")
     @classmethod
@@ -248,7 +260,10 @@ class Agent(_Table):
         max_length=MAX_SOLUTES, description="per solute: K = y/x at column conditions, or Henry's-law or "
         "vapour-pressure data")
     density: Annotated[Density | None, _described("liquid solvents")] = None  # [kg/m3]
-    viscosity: Annotated[Viscosity | None, _described("liquid solvents")] = None  # [Pa s]
+    viscosity: Annotated[Viscosity | None, _described(
+        "liquid solvents; a stripping gas's where [[packing]] is offered")] = None  # [Pa s]
+    diffusivity: dict[Annotated[str, Field(min_length=1, max_length=MAX_NAME)], Diffusivity] = Field(
+        {}, max_length=MAX_SOLUTES, description="of each solute in the candidate's phase, for packed beds (Onda)")
     surface_tension: Annotated[SurfaceTension | None, _described("liquid solvents")] = None  # [N/m]
     price: Annotated[Price, _described("fresh agent")] = 0.0  # [USD/kg]
     disposal: Annotated[Price, _described("to dispose of or treat the spent agent")] = 0.0  # [USD/kg]
@@ -323,14 +338,81 @@ class Column(_Table):
                                        "operating range")
     max_dilute: number(env.DILUTE) = defaults.MAX_DILUTE  # solute mole fraction; common practice
     max_flow_change: number(env.DILUTE) = defaults.MAX_FLOW_CHANGE  # fractional; common practice
+    offer_trays: StrictBool = Field(True, description="false: only the [[packing]] beds are offered")
+    compete_tray_types: StrictBool = Field(False, description="true: sieve and valve trays both offered at every "
+                                           "point, each its own alternative competing with the other")
+    stages: tuple[number(env.STAGES), number(env.STAGES)] | None = Field(
+        None, description="range of theoretical stages searched in packed beds, [low, high]; unset: [1, the upper "
+        "end of trays]")
+    max_pressure_drop: Annotated[quantity(env.PRESSURE_DROP_LIMIT) | None, _described(
+        "gas pressure drop of the column (trays or beds), a limit")] = None  # [Pa]
+    packing_materials: list[Name] | None = Field(None, max_length=MAX_CANDIDATES, description=(
+        "packing materials allowed (a limit); unset: any"))
 
     @model_validator(mode="after")
     def _ranges(self):
         if self.trays[0] > self.trays[1]:
             raise ValueError(f"trays range {list(self.trays)} must be [low, high] with low <= high")
+        if self.stages is not None and self.stages[0] > self.stages[1]:
+            raise ValueError(f"stages range {list(self.stages)} must be [low, high] with low <= high")
         if self.ratio[0] >= self.ratio[1]:
             raise ValueError(f"ratio range {list(self.ratio)} must be [low, high] with low < high")
         return self
+
+
+class PackedBed(_Table):
+    """One ``[[packing]]`` entry: a random packing offered as the column's internals, with its design options.
+
+    Defaults are common practice (``towercost.models.packing``): design at 0.70
+    of flood and at most 400 Pa/m; beds no taller than the packing row's
+    ``max_bed_height``. A given ``h_og``, ``h_ol`` or ``hetp`` (one at most)
+    replaces the Onda film heights for every solute.
+    """
+
+    packing: Annotated[Name, _described("a row of models/data/packings.toml, e.g. 'pall_ring_plastic_50'")]
+    name: Annotated[Name | None, _described("label in the ranking; unset: the packing's kind, material and size")] \
+        = None
+    flood_fraction: number(env.FLOOD) = packing_data.FLOOD_FRACTION
+    pressure_drop_per_m: Annotated[PressureGradient, _described("design limit of the bed")] \
+        = packing_data.PRESSURE_DROP_LIMIT  # [Pa/m]
+    max_pressure_drop: Annotated[quantity(env.PRESSURE_DROP_LIMIT) | None, _described(
+        "across the beds, a limit for this packing")] = None  # [Pa]
+    max_height: Annotated[quantity(env.HEIGHT_LIMIT) | None, _described(
+        "column height, tangent to tangent, a limit for this packing")] = None  # [m]
+    max_bed_height: Annotated[quantity(env.BED_HEIGHT) | None, _described(
+        "tallest bed; unset: the packing row's (common practice)")] = None  # [m]
+    h_og: Annotated[TransferHeight | None, _described("given overall height of a gas-phase transfer unit")] = None
+    h_ol: Annotated[TransferHeight | None, _described("given overall height of a liquid-phase transfer unit")] = None
+    hetp: Annotated[TransferHeight | None, _described("given height equivalent to a theoretical stage")] = None
+    price: Annotated[quantity(env.PACKING_PRICE) | None, _described(
+        "per packed volume at the estimate's cost index; unset: the row's")] = None  # [USD/m3]
+
+    @field_validator("packing")
+    @classmethod
+    def _known_packing(cls, value: str):
+        known = packing_data.packing_names()
+        if value not in known:
+            raise ValueError(f"unknown packing {value!r}; models/data/packings.toml has {', '.join(known)}")
+        return value
+
+    @model_validator(mode="after")
+    def _one_height(self):
+        given = [n for n in ("h_og", "h_ol", "hetp") if getattr(self, n) is not None]
+        if len(given) > 1:
+            raise ValueError(f"give at most one of h_og, h_ol and hetp (got {', '.join(given)})")
+        return self
+
+    @property
+    def label(self) -> str:
+        """The name shown: the entry's own, or the packing's kind, material and size."""
+        if self.name is not None:
+            return self.name
+        row = packing_data.packing_data(self.packing)
+        return f"{row['material']} {row['kind']}s {1000 * row['nominal_size']:g} mm"
+
+    @property
+    def given_height(self) -> bool:
+        return any(getattr(self, n) is not None for n in ("h_og", "h_ol", "hetp"))
 
 
 class Economics(_Table):
@@ -516,6 +598,7 @@ class Scenario(_Table):
     solvent: list[Agent] = Field([], max_length=MAX_CANDIDATES)
     stripping_gas: list[Agent] = Field([], max_length=MAX_CANDIDATES)
     column: Column = Column()
+    packing: list[PackedBed] = Field([], max_length=MAX_CANDIDATES, description="packed beds offered beside the trays")
     economics: Economics = Economics()
     uncertainty: Uncertainty = Uncertainty()
     units: UnitBasis = Field(UnitBasis(), description="reference conditions of gauge pressures and of gas volumes")
@@ -598,6 +681,36 @@ class Scenario(_Table):
         context = getattr(info, "context", None)
         if isinstance(context, dict):
             self._used = dict(context.get("used", {}))
+        return self
+
+    @model_validator(mode="after")
+    def _packings(self):
+        """Packed beds need distinct names and, unless every bed has a given height, the transport properties."""
+        if not self.column.offer_trays and not self.packing:
+            raise ValueError("[column] offer_trays = false needs at least one [[packing]]")
+        labels = [p.label for p in self.packing]
+        if len(set(labels)) != len(labels):
+            raise ValueError(f"[[packing]] names must be distinct, got {labels}; give each a name")
+        if not self.packing:
+            return self
+        word = self.agent_word
+        gas_word = "[feed] viscosity (the gas's)" if self.case.mode == "absorb" else None
+        for agent in self.agents:
+            if self.case.mode == "strip" and agent.viscosity is None:
+                raise ValueError(f"[[stripping_gas]] {agent.name!r}: viscosity (the gas's) is needed by [[packing]] "
+                                 "for the bed's pressure drop")
+        if gas_word and self.feed.viscosity is None:
+            raise ValueError(f"{gas_word} is needed by [[packing]] for the bed's pressure drop, e.g. '0.018 cP'")
+        if all(p.given_height for p in self.packing):
+            return self
+        for solute in self.solutes:
+            if solute not in self.feed.diffusivity:
+                raise ValueError(f"[feed.diffusivity] {solute!r} is needed by [[packing]] without h_og, h_ol or hetp "
+                                 "(the Onda film heights), e.g. '1.0e-9 m2/s' in a liquid, '8e-6 m2/s' in a gas")
+            for agent in self.agents:
+                if solute not in agent.diffusivity:
+                    raise ValueError(f"[[{word}]] {agent.name!r}: diffusivity of {solute!r} is needed by [[packing]] "
+                                     f"without h_og, h_ol or hetp ([{word}.diffusivity])")
         return self
 
     @model_validator(mode="after")

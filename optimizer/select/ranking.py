@@ -15,16 +15,17 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from towercost.design import cascade
+from towercost.design import cascade, packed
 from towercost.design.case import Case, agent_index, prepare
 from towercost.design.column import MAX_WIDER, SAME_RATE, SingleColumn
 from towercost.design.limits import RATIO_TOLERANCE, SPEC_TOLERANCE
 from towercost.models import hydraulics
 from towercost.design.designs import Designs
+from towercost.design.internals import FIRST_PACKING
 from towercost.design.cascade import dilute_checks
 from towercost.design.reasons import infeasible_reason
 from towercost.design.space import Space, build_space
-from towercost.errors import InfeasibleSpec
+from towercost.errors import InfeasibleSpec, ScenarioError
 from towercost.scenario.schema import Scenario
 from towercost.select.scan import first_distinct, first_in_order, first_per_agent, scan
 
@@ -40,7 +41,7 @@ def listing_groups(space: Space, distinct: str) -> np.ndarray | None:
     if distinct not in DISTINCT:
         raise ValueError(f"distinct must be one of {', '.join(DISTINCT)}, got {distinct!r}")
     if distinct == "trays":
-        return space.group                      # (candidate, trays); the internals are the scenario's one kind
+        return space.group                      # (candidate, internals family, trays or a bed's stages)
     if distinct == "candidate":
         return space.agent.astype(np.int64)
     return None
@@ -48,7 +49,7 @@ def listing_groups(space: Space, distinct: str) -> np.ndarray | None:
 
 @dataclass
 class BandRange:
-    """One candidate's designs within the margin of the best: how far each decision ranges."""
+    """One candidate's designs within the margin of the best (per internals where the case has packings)."""
 
     agent: str
     count: int
@@ -56,6 +57,7 @@ class BandRange:
     ratio: tuple[float, float]
     diameter: tuple[float, float]      # [m]
     cost: tuple[float, float]          # annualized [USD/yr]
+    internals: str = "trays"           # "trays", or the packing's name
 
 
 @dataclass
@@ -86,7 +88,7 @@ class Result:
     case: Case
     method: str
     designs: Designs                 # the ranked designs, re-evaluated exactly, best first
-    per_agent: Designs               # best design of each candidate that has one, re-evaluated
+    per_agent: Designs               # best design of each candidate (and of its internals) that has one, re-evaluated
     band: Band
     unmet: dict[str, str]            # candidate name -> why it has no design
     warnings: list[str]
@@ -121,29 +123,33 @@ def search_bounds(space: Space, i: int) -> list[tuple[str, str]]:
     """
     case = space.case
     word = case.service.ratio_word
-    (t_lo, t_hi), (r_lo, r_hi) = case.trays_range, case.ratio_range
+    bed = int(space.internals[i]) >= FIRST_PACKING
+    (t_lo, t_hi), (r_lo, r_hi) = (case.stages_range if bed else case.trays_range), case.ratio_range
+    what, key = ("theoretical stages in a packed bed", "stages") if bed else ("trays", "trays")
     trays, ratio, agent = int(space.trays[i]), float(space.ratio[i]), int(space.agent[i])
     out = []
     if trays == t_hi:
-        out.append(("trays_high", f"uses {trays} trays, the most searched ([column] trays = [{t_lo}, {t_hi}]): "
-                                  "raise the upper end to see whether more trays pay"))
+        out.append(("trays_high", f"uses {trays} {what}, the most searched ([column] {key} = [{t_lo}, {t_hi}]): "
+                                  f"raise the upper end to see whether more {key} pay"))
     if trays == t_lo and t_lo > 1:
-        out.append(("trays_low", f"uses {trays} trays, the fewest searched ([column] trays = [{t_lo}, {t_hi}]): "
-                                 "lower the first value to see whether fewer trays pay"))
+        out.append(("trays_low", f"uses {trays} {what}, the fewest searched ([column] {key} = [{t_lo}, {t_hi}]): "
+                                 f"lower the first value to see whether fewer {key} pay"))
     if ratio <= r_lo * (1 + 1e-9):
         out.append(("ratio_low", f"runs at {word} {ratio:.4g}, the floor of the searched range ([column] ratio = "
-                                 f"[{r_lo:g}, {r_hi:g}]), where these trays would meet the spec with less: lower "
+                                 f"[{r_lo:g}, {r_hi:g}]), where these {key} would meet the spec with less: lower "
                                  "the first value (it must stay above 1)"))
     ceiling = ratio >= r_hi * (1 - 1e-9)
     if not ceiling and space.least[i] and trays > t_lo:
-        fewer = float(cascade.least_rate(case, np.array([agent]), np.array([trays - 1]))[0])
+        least = packed.stage_least_rates if bed else cascade.least_rate
+        fewer = float(least(case, np.array([agent]), np.array([trays - 1]))[0])
         ceiling = not fewer <= r_hi * float(space.flowsheet.rate_min[agent]) * (1 + RATIO_TOLERANCE)
     if ceiling:
         out.append(("ratio_high", f"runs at {word} {ratio:.4g}, at the ceiling of the searched range ([column] ratio"
-                                  f" = [{r_lo:g}, {r_hi:g}]) for its trays: fewer trays would need more than "
+                                  f" = [{r_lo:g}, {r_hi:g}]) for its {key}: fewer {key} would need more than "
                                   f"{r_hi:g} x the minimum; raise the upper value to see whether they pay"))
     if case.shell_diameter is None:
-        same = (space.agent == agent) & (space.trays == trays) & (space.rate == space.rate[i])
+        same = ((space.agent == agent) & (space.trays == trays) & (space.rate == space.rate[i])
+                & (space.family == space.family[i]))
         tried = space.diameter[same]
         if space.diameter[i] >= tried.max():
             wider = float(hydraulics.standard_diameter(space.diameter[i] + hydraulics.STANDARD_DIAMETER_STEP))
@@ -166,7 +172,7 @@ def search_bounds(space: Space, i: int) -> list[tuple[str, str]]:
 def bound_flags(space: Space, order: list[int], best_of: dict[int, int]) -> tuple[list[BoundFlag], list[list[str]]]:
     """Flags for the best design and each candidate's best, and the bounds of every ranked design."""
     flags, seen = [], set()
-    picks = [("the best design", order[0])] + [(f"the best design of {space.case.agents[a]!r}", i)
+    picks = [("the best design", order[0])] + [(f"the best design of {kind_label(space, a)}", i)
                                                for a, i in sorted(best_of.items())]
     for label, i in picks:
         if i in seen:
@@ -176,20 +182,60 @@ def bound_flags(space: Space, order: list[int], best_of: dict[int, int]) -> tupl
     return flags, [[bound for bound, _ in search_bounds(space, i)] for i in order]
 
 
+def kind_label(space: Space, kind: int) -> str:
+    """'candidate' in quotes, with its internals where the case has packings."""
+    agent, family = space.kind_of(kind)
+    name = repr(space.case.agents[agent])
+    if not space.case.packings:
+        return name
+    return f"{name} with {internals_word(space.case, family)}"
+
+
+def internals_word(case: Case, family: int) -> str:
+    """'trays', or the name of the packing of internals family ``family`` (1 + its index)."""
+    return "trays" if family == 0 else case.packings[family - 1].name
+
+
+def kind_reason(space: Space, kind: int) -> str:
+    """Why no design of one candidate with one internals family qualifies: the limits its designs cannot meet."""
+    d = space.designs(np.flatnonzero(space.kind == kind))
+    meets = np.ones(len(d), bool)
+    for limit in d.limits:
+        if limit.is_spec:
+            meets &= limit.met
+    if not meets.any():
+        return "no design meets the spec within the searched counts and ratio range"
+    parts = []
+    for limit in d.limits:
+        there = meets & limit.applies
+        if limit.is_spec or limit.name.startswith("ratio") or not there.any():
+            continue
+        least = float(np.min(limit.values[there]))
+        if least > limit.bound and limit.name == "packing_material":
+            parts.append(f"the packing's material is not allowed ({limit.label.split(' (')[0]})")
+        elif least > limit.bound:
+            parts.append(f"the least {limit.label.split(' at most')[0]} of any design meeting the spec is "
+                         f"{least:.4g} {limit.unit}".rstrip() + f", above the limit ({limit.label})")
+    return "no design meets the spec within the limits: " + ("; ".join(parts) if parts else
+                                                             "no single design meets every limit at once")
+
+
 def near_optimal_band(space: Space, best_cost: float, margin: float) -> Band:
     """The trays and ratio spanned by designs whose cost is within ``margin`` of the best, overall and per candidate."""
     inside = space.feasible & (space.cost <= best_cost + margin * abs(best_cost))
     ratio = space.ratio
     agents = [space.case.agents[a] for a in np.unique(space.agent[inside])]
     by_agent = []
-    for a in np.unique(space.agent[inside]):
-        mine = inside & (space.agent == a)
+    for kind in np.unique(space.kind[inside]):
+        mine = inside & (space.kind == kind)
+        a, family = space.kind_of(kind)
         by_agent.append(BandRange(
             agent=space.case.agents[a], count=int(mine.sum()),
             trays=(int(space.trays[mine].min()), int(space.trays[mine].max())),
             ratio=(float(ratio[mine].min()), float(ratio[mine].max())),
             diameter=(float(space.diameter[mine].min()), float(space.diameter[mine].max())),
-            cost=(float(space.cost[mine].min()), float(space.cost[mine].max()))))
+            cost=(float(space.cost[mine].min()), float(space.cost[mine].max())),
+            internals=internals_word(space.case, family)))
     return Band(margin=margin, count=int(inside.sum()),
                 trays=(int(space.trays[inside].min()), int(space.trays[inside].max())),
                 ratio=(float(ratio[inside].min()), float(ratio[inside].max())), agents=agents, by_agent=by_agent)
@@ -217,8 +263,9 @@ def select_by_model(space: Space, top: int, distinct: np.ndarray | None = None) 
     Every alternative the model sees meets every limit (a one-unit scenario
     has only per-design limits); of those it sees, per candidate, the first
     ``top`` in tie order and, with ``distinct`` groups, the leaders of the
-    first ``top`` groups. The model excludes a pick's whole group. The set is
-    exact: the top ``top`` groups overall are among the candidates' first
+    first ``top`` groups (per kind: candidate, and internals family where the
+    case has packings). The model excludes a pick's whole group. The set is
+    exact: the top ``top`` groups overall are among the kinds' first
     ``top`` groups, whose leaders it holds; every other alternative it holds
     comes after its own group's leader, which it also holds (a leader comes
     first in its group, so it is among a candidate's first ``top`` whenever a
@@ -230,8 +277,9 @@ def select_by_model(space: Space, top: int, distinct: np.ndarray | None = None) 
     if feasible.size == 0:
         raise InfeasibleSpec(infeasible_reason(space))
     parts = []
-    for a in np.unique(space.agent[feasible]):
-        mine = feasible[space.agent[feasible] == a]
+    kinds = space.kind[feasible]
+    for a in np.unique(kinds):
+        mine = feasible[kinds == a]
         parts.append(first_in_order(space, mine, top))
         if distinct is not None:
             parts.append(first_distinct(space, mine, top, distinct))
@@ -241,9 +289,9 @@ def select_by_model(space: Space, top: int, distinct: np.ndarray | None = None) 
     groups = None if distinct is None else [distinct[kept]]
     order = [int(kept[c[0]]) for c in selection.best(top, distinct=groups).choices]
     best_of = {}
-    agent_of = space.agent[kept]
-    for a in np.unique(agent_of):
-        best_of[int(a)] = int(kept[selection.best(1, restrict=[agent_of == a]).choices[0][0]])
+    kind_of = space.kind[kept]
+    for a in np.unique(kind_of):
+        best_of[int(a)] = int(kept[selection.best(1, restrict=[kind_of == a]).choices[0][0]])
     figures = {"binaries": selection.binaries, "build_seconds": selection.build_seconds,
                "solve_seconds": selection.solve_seconds, "solves": selection.solves,
                "solver": "HiGHS (highspy) on the Pyomo model's matrix, MIP gaps 0"}
@@ -287,9 +335,14 @@ def optimize(scenario: Scenario, *, top: int = 10, method: str = "model", distin
     agents_with = sorted(best_of)
     per_agent = space.designs([best_of[a] for a in agents_with])
     unmet = {}
+    have = {space.kind_of(k)[0] for k in best_of}
     for a, name in enumerate(case.agents):
-        if a not in best_of:
+        if a not in have:
             unmet[name] = infeasible_reason(build_space(case, agents=[a]))
+    for kind in np.unique(space.kind):          # a candidate with designs, but none with some internals
+        agent, family = space.kind_of(kind)
+        if int(kind) not in best_of and agent in have:
+            unmet[f"{case.agents[agent]} with {internals_word(case, family)}"] = kind_reason(space, int(kind))
     flags, ranked_bounds = bound_flags(space, order, best_of)
     reported = space.designs(np.unique(np.array(order + [best_of[a] for a in agents_with])))   # one set of messages
     warnings = list(dict.fromkeys([f.message for f in flags] + reported.warnings
@@ -302,16 +355,36 @@ def optimize(scenario: Scenario, *, top: int = 10, method: str = "model", distin
                   per_agent_rank=ranks, scenario=scenario, bounds=flags, ranked_bounds=ranked_bounds)
 
 
-def evaluate_design(scenario: Scenario, agent: str, trays: int, *, ratio: float | None = None,
-                    rate: float | None = None, diameter: float | None = None) -> tuple[Case, Designs, list[str]]:
+def internals_index(case: Case, internals: str | None) -> int | None:
+    """The internals index of a packing named (its [[packing]] name or its row key); None: the trays."""
+    if internals is None:
+        return None
+    for p, choice in enumerate(case.packings):
+        if internals in (choice.name, choice.key):
+            return FIRST_PACKING + p
+    known = ", ".join(repr(c.name) for c in case.packings) or "none"
+    raise ScenarioError(f"no [[packing]] named {internals!r}; the scenario's packings: {known}")
+
+
+def evaluate_design(scenario: Scenario, agent: str, trays: int | None, *, ratio: float | None = None,
+                    rate: float | None = None, diameter: float | None = None,
+                    internals: str | None = None) -> tuple[Case, Designs, list[str]]:
     """Evaluate one design the user names: candidate, real trays, a ratio to the minimum or a rate [mol/s].
 
     The design is priced whether or not it meets the spec; ``meets_spec``
     and the outlets say which. ``diameter`` [m] gives the shell; without it,
-    the least standard size (or the scenario's existing shell).
+    the least standard size (or the scenario's existing shell). ``internals``
+    names a [[packing]] (its name or row key): the design is then that packed
+    bed, whose height (and stage count) follows from the rate, and ``trays``
+    is not used.
     """
     case = prepare(scenario)
     a = agent_index(case, agent)
+    kind = internals_index(case, internals)
+    if kind is None and not case.offer_trays:
+        raise ScenarioError("[column] offer_trays = false: name one of the scenario's packings")
+    if kind is None and trays is None:
+        raise ValueError("give the trays of a tray design")
     if (ratio is None) == (rate is None):
         raise ValueError("give exactly one of ratio and rate")
     if rate is None:
@@ -319,8 +392,9 @@ def evaluate_design(scenario: Scenario, agent: str, trays: int, *, ratio: float 
         if not np.isfinite(rate_min):
             raise InfeasibleSpec(infeasible_reason(build_space(case, agents=[a])))
         rate = ratio * rate_min
-    d = SingleColumn(case).evaluate(np.array([a]), np.array([trays]), np.array([rate]),
-                                    None if diameter is None else np.array([diameter]))
+    d = SingleColumn(case).evaluate(np.array([a]), np.array([0 if kind is not None else trays]), np.array([rate]),
+                                    None if diameter is None else np.array([diameter]),
+                                    None if kind is None else np.array([kind]))
     return case, d, list(dict.fromkeys(d.warnings + dilute_checks(case, d)))
 
 
@@ -330,9 +404,10 @@ class Curve:
 
     case: Case = field(repr=False)
     agent: str
-    by_trays: Designs = field(repr=False)     # for each tray count, its best design
+    by_trays: Designs = field(repr=False)     # for each tray count (a bed's stages), its best design
     by_ratio: Designs = field(repr=False)     # for each ratio level, the best design at that rate
     warnings: list[str] = field(default_factory=list)   # range messages of the designs shown
+    internals: str = "trays"                  # "trays", or the packing's name
 
 
 def _cheapest_per(labels: np.ndarray, order: np.ndarray) -> np.ndarray:
@@ -341,12 +416,20 @@ def _cheapest_per(labels: np.ndarray, order: np.ndarray) -> np.ndarray:
     return order[first]
 
 
-def cost_curve(scenario: Scenario, agent: str) -> Curve:
-    """Cost against trays (best rate at each) and against the ratio (best trays at each level)."""
+def cost_curve(scenario: Scenario, agent: str, internals: str | None = None) -> Curve:
+    """Cost against trays (best rate at each) and against the ratio (best trays at each level).
+
+    ``internals`` names a [[packing]]: its curve against theoretical stages;
+    without it, the trays' (or, with trays not offered, the first packing's).
+    """
     case = prepare(scenario)
     a = agent_index(case, agent)
+    kind = internals_index(case, internals)
+    if kind is None and not case.offer_trays:
+        kind = FIRST_PACKING
     space = build_space(case, agents=[a])
-    feasible = np.flatnonzero(space.feasible)
+    family = 0 if kind is None else kind - FIRST_PACKING + 1
+    feasible = np.flatnonzero(space.feasible & (space.family == family))
     if feasible.size == 0:
         raise InfeasibleSpec(infeasible_reason(space))
     order = space.tie_order(feasible)
@@ -359,4 +442,4 @@ def cost_curve(scenario: Scenario, agent: str) -> Curve:
     by_ratio = _cheapest_per(level, order[on_grid[order]])
     shown = space.designs(np.unique(np.concatenate([by_trays, by_ratio])))   # one set of messages for both tables
     return Curve(case=case, agent=agent, by_trays=space.designs(by_trays), by_ratio=space.designs(by_ratio),
-                 warnings=shown.warnings)
+                 warnings=shown.warnings, internals=internals_word(case, family))

@@ -52,16 +52,18 @@ def first_distinct(space: Space, index: np.ndarray, keep: int, group: np.ndarray
 
 
 def first_per_agent(space: Space, index: np.ndarray, keep: int) -> dict[int, np.ndarray]:
-    """For each candidate, the first ``keep`` of its alternatives in ``index``, in tie order."""
+    """For each kind (candidate, and internals family where the case has packings: ``Space.kind``), the first
+    ``keep`` of its alternatives in ``index``, in tie order."""
     index = np.asarray(index, dtype=int)
+    kinds = space.kind[index]
     out = {}
-    for a in np.unique(space.agent[index]):
-        out[int(a)] = first_in_order(space, index[space.agent[index] == a], keep)
+    for a in np.unique(kinds):
+        out[int(a)] = first_in_order(space, index[kinds == a], keep)
     return out
 
 
 def scan(space: Space, top: int, distinct: np.ndarray | None = None) -> tuple[list[int], dict[int, int]]:
-    """The ``top`` cheapest alternatives meeting every limit, and each candidate's best (indices into ``space``).
+    """The ``top`` cheapest alternatives meeting every limit, and each kind's best (indices into ``space``).
 
     ``distinct`` (a group label per alternative of the space): the leaders of
     the ``top`` cheapest groups instead, one alternative per group.

@@ -97,6 +97,9 @@ def monte_carlo(scenario: Scenario, chosen: Chosen | None = None, *, samples: in
                 seed: int | None = None, confidence: float | None = None, reoptimize_samples: int | None = None,
                 progress: Callable[[str, int, int], None] | None = None) -> MonteCarlo:
     """The whole study (see the module notes); ``progress(phase, done, total)`` is called as it goes."""
+    from towercost.study.variation import trays_only
+
+    scenario = trays_only(scenario)      # tray columns only: a packed bed's spreads are not modelled yet
     chosen = Chosen() if chosen is None else chosen
     if chosen.agent is None and not 1 <= (chosen.rank or 1) <= MAX_RANK:
         raise ScenarioError(f"--design must be a rank from 1 to {MAX_RANK}, got {chosen.rank}")

@@ -140,6 +140,9 @@ def _best(case: Case, base: float) -> Best:
 def sensitivity(scenario: Scenario, *, change: float | None = None,
                 progress: Callable[[int, int], None] | None = None) -> Sensitivity:
     """Every input of the scenario changed down and up, one at a time (see the module notes)."""
+    from towercost.study.variation import trays_only
+
+    scenario = trays_only(scenario)      # tray columns only: a packed bed's spreads are not modelled yet
     case = prepare(scenario)
     nominal = best_design(case)
     design = Decisions.of(nominal)

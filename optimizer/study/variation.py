@@ -36,6 +36,19 @@ ECONOMIC = {"electricity": "electricity", "steam": "steam", "cooling_water": "co
             "cost_index": "index_to", "interest": "interest"}
 
 
+def trays_only(scenario: Scenario) -> Scenario:
+    """The scenario with its [[packing]] beds left out: the studies cover tray columns only (not yet packed beds:
+    their spreads would act on H_OG or HETP, not on a tray efficiency)."""
+    from towercost.errors import ScenarioError
+
+    if not scenario.packing:
+        return scenario
+    if not scenario.column.offer_trays:
+        raise ScenarioError("the uncertainty and sensitivity studies cover tray columns; this scenario offers packed "
+                            "beds only ([column] offer_trays = false)")
+    return scenario.model_copy(update={"packing": []})
+
+
 def agent_fields(case: Case) -> tuple[str, ...]:
     """The case's fields that carry the candidate axis first (arrays indexed by candidate)."""
     n = len(case.agents)
@@ -53,7 +66,9 @@ def replicate(case: Case, index) -> Case:
     """A case whose candidate i is the original candidate ``index[i]``, every per-candidate array indexed."""
     index = np.asarray(index, dtype=int)
     changes = {name: getattr(case, name)[index] for name in agent_fields(case)}
-    return dataclasses.replace(case, agents=tuple(case.agents[i] for i in index), **changes)
+    # the studies cover tray columns (``trays_only``): a replica offers no packed bed
+    return dataclasses.replace(case, agents=tuple(case.agents[i] for i in index), packings=(), offer_trays=True,
+                               **changes)
 
 
 def oconnell_agents(scenario: Scenario) -> np.ndarray:
@@ -132,6 +147,7 @@ def varied_case(scenario: Scenario, factors: dict[str, object], *, notes: list[s
     ``k[solute]``, ``efficiency``. Factors are numbers.
     """
     flow, inlet = float(factors.get("feed_flow", 1.0)), float(factors.get("inlet", 1.0))
+    scenario = trays_only(scenario)
     case = prepare(with_feed(scenario, flow=flow, inlet=inlet) if (flow, inlet) != (1.0, 1.0) else scenario)
     k = np.full(case.k_value.shape, float(factors.get("k", 1.0)))
     for name, value in factors.items():

@@ -88,15 +88,20 @@ def cases() -> dict[str, list[str]]:
 
 
 def evaluate_cases(name: str, optimize_record: dict, scenario: str) -> dict[str, list[str]]:
-    """evaluate --json of the best design of each candidate, and curve of each candidate."""
+    """evaluate --json of the best design of each candidate (and of each of its packed beds), and curve of each
+    candidate (its trays)."""
     runs = {}
     stem = name.removesuffix("-optimize")
     for rec in optimize_record["per_agent_best"]:
         agent = rec["agent"]
         tag = re.sub(r"[^A-Za-z0-9]+", "_", agent).strip("_")
+        packed = rec["column"].get("packed")
+        if packed:
+            tag += "-" + re.sub(r"[^A-Za-z0-9]+", "_", packed["row"]).strip("_")
         # by its design ID: the exact rate and shell (a ratio typed back may miss the spec by rounding)
         runs[f"{stem}-evaluate-{tag}"] = ["evaluate", scenario, "--design", rec["design_id"], "--json"]
-        runs[f"{stem}-curve-{tag}"] = ["curve", scenario, "--solvent", agent]
+        if not packed:
+            runs[f"{stem}-curve-{tag}"] = ["curve", scenario, "--solvent", agent]
     return runs
 
 
