@@ -157,3 +157,30 @@ def test_progress_is_reported_for_every_chunk(scenario):
     assert len(seen) > 3
     assert all(b >= a for (a, _), (b, _) in zip(seen, seen[1:]))
     assert seen[-1][0] == seen[-1][1] or seen[-1][0] <= seen[-1][1]
+
+
+def test_the_api_makes_the_command_lines_checks_before_evaluating(scenario, monkeypatch):
+    """A scenario built in a notebook is refused as the command line refuses it, in one line, nothing evaluated."""
+    from towercost.errors import ScenarioError, TooLarge
+
+    import tomllib
+
+    raw = tomllib.loads(ABSORBER.read_text(encoding="utf-8"))
+    raw["column"]["ratio_levels"] = 2000        # within its field's range; beyond a machine with 64 MiB free
+    huge = towercost.from_dict(raw)
+    monkeypatch.setattr("towercost.design.reasons.available_memory", lambda: 64 * 2**20)
+    with pytest.raises(TooLarge, match="alternatives"):
+        towercost.optimize(huge)
+    with pytest.raises(TooLarge):
+        towercost.curve(huge, "light wash oil")
+
+    monkeypatch.undo()
+    raw = tomllib.loads(ABSORBER.read_text(encoding="utf-8"))
+    # K = 1e-4 is a valid field, but the solvent in equilibrium with 500 ppmv would hold a mole fraction of 5
+    raw["solvent"][2]["k"] = {"toluene": 1e-4, "p-xylene": 0.06}
+    beyond = towercost.from_dict(raw)
+    with pytest.raises(ScenarioError, match=r"'glycol ether': in equilibrium"):
+        towercost.optimize(beyond)
+    with pytest.raises(ScenarioError, match=r"'glycol ether': in equilibrium"):
+        towercost.evaluate(beyond, "glycol ether", trays=10, ratio=1.5)
+    towercost.evaluate(beyond, "light wash oil", trays=10, ratio=1.5)   # the check is per candidate named

@@ -23,7 +23,7 @@ from towercost.models import hydraulics
 from towercost.design.designs import Designs
 from towercost.design.internals import FIRST_PACKING
 from towercost.design.cascade import dilute_checks
-from towercost.design.reasons import infeasible_reason
+from towercost.design.reasons import check_case, infeasible_reason
 from towercost.design.space import Space, build_space
 from towercost.errors import InfeasibleSpec, ScenarioError
 from towercost.scenario.schema import Scenario
@@ -298,6 +298,18 @@ def select_by_model(space: Space, top: int, distinct: np.ndarray | None = None) 
     return order, best_of, figures
 
 
+def checked_case(scenario: Scenario, agent: str | None = None) -> Case:
+    """The scenario in SI, refused (one ``ScenarioError`` line) if a candidate is beyond the relations or too large.
+
+    Every entry point of the API starts here, so that a scenario built in a
+    notebook meets the same checks (``reasons.check_case``) as one run from
+    the command line. ``agent`` limits the checks to that candidate.
+    """
+    case = prepare(scenario)
+    check_case(case, None if agent is None else [agent_index(case, agent)])
+    return case
+
+
 def optimize(scenario: Scenario, *, top: int = 10, method: str = "model", distinct: str = "trays",
              progress: Callable[[int, int], None] | None = None) -> Result:
     """Rank the ``top`` best distinct designs of the scenario by total annualized cost.
@@ -316,7 +328,7 @@ def optimize(scenario: Scenario, *, top: int = 10, method: str = "model", distin
     if top < 1:
         raise ValueError(f"top must be at least 1, got {top}")
     t0 = time.perf_counter()
-    case = prepare(scenario)
+    case = checked_case(scenario)
     space = build_space(case, progress=progress)
     t1 = time.perf_counter()
     solver: dict = {"method": method, "alternatives_evaluated": len(space), "evaluate_seconds": t1 - t0}
@@ -378,7 +390,7 @@ def evaluate_design(scenario: Scenario, agent: str, trays: int | None, *, ratio:
     bed, whose height (and stage count) follows from the rate, and ``trays``
     is not used.
     """
-    case = prepare(scenario)
+    case = checked_case(scenario, agent)
     a = agent_index(case, agent)
     kind = internals_index(case, internals)
     if kind is None and not case.offer_trays:
@@ -422,7 +434,7 @@ def cost_curve(scenario: Scenario, agent: str, internals: str | None = None) -> 
     ``internals`` names a [[packing]]: its curve against theoretical stages;
     without it, the trays' (or, with trays not offered, the first packing's).
     """
-    case = prepare(scenario)
+    case = checked_case(scenario, agent)
     a = agent_index(case, agent)
     kind = internals_index(case, internals)
     if kind is None and not case.offer_trays:

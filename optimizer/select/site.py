@@ -29,9 +29,9 @@ import numpy as np
 
 from towercost.design.case import prepare
 from towercost.design.designs import Designs
-from towercost.design.reasons import infeasible_reason
+from towercost.design.reasons import check_case, infeasible_reason
 from towercost.design.space import Space, build_space
-from towercost.errors import InfeasibleSpec
+from towercost.errors import InfeasibleSpec, ScenarioError
 from towercost.scenario.site import SiteSpec
 from towercost.select import model
 from towercost.select.reduction import undominated
@@ -170,13 +170,23 @@ class Assembly:
     evaluate_seconds: float
 
 
+def _checked(name: str, scenario):
+    """One unit's case, with the checks every entry point makes (``reasons.check_case``); a refusal names the unit."""
+    case = prepare(scenario)
+    try:
+        check_case(case)
+    except ScenarioError as exc:
+        raise type(exc)(f"unit {name!r}: {exc}") from None
+    return case
+
+
 def assemble(spec: SiteSpec, keep: int, listing: str = "variant") -> Assembly:
     """Evaluate every unit's space and reduce it exactly for the ``keep`` best joint choices of the listing."""
     start = time.perf_counter()
     limits = {name: (float(getattr(spec.shared, name)), SHARED[name][1], SHARED[name][2])
               for name in SHARED if getattr(spec.shared, name) is not None}
     resources = [SHARED[name][0] for name in limits]
-    spaces = [build_space(prepare(scenario), keep=tuple(resources)) for _, scenario in spec.units]
+    spaces = [build_space(_checked(name, scenario), keep=tuple(resources)) for name, scenario in spec.units]
     evaluated = time.perf_counter() - start
     units = [_unit(name, space, keep, resources, listing) for (name, _), space in zip(spec.units, spaces)]
     shared = [model.SharedLimit(name, SHARED[name][0], bound, words) for name, (bound, _, words) in limits.items()]
