@@ -162,11 +162,17 @@ def words(dimension) -> str:
     >>> words(registry().Quantity(1, "USD/kWh").dimensionality)
     'a price per energy'
     """
-    ureg = registry()
-    for unit, word in _WORDS:
-        if ureg.Quantity(1, unit).dimensionality == dimension:
+    for known, word in _word_dimensions():
+        if known == dimension:
             return word
     return str(dimension)
+
+
+@lru_cache(maxsize=1)
+def _word_dimensions() -> tuple:
+    """(pint dimensionality, word) of each entry of ``_WORDS``, parsed once (the schema asks at import, per field)."""
+    ureg = registry()
+    return tuple((ureg.Quantity(1, unit).dimensionality, word) for unit, word in _WORDS)
 
 
 def _split(value, unit: str, what: str) -> tuple[float, str]:
