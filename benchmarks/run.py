@@ -76,6 +76,33 @@ def _text(value) -> str:
     return f"{value:,}" if isinstance(value, int) else f"{value:.4g}"
 
 
+#: The speed targets (issue 7): (what, section, figure names, test on the value, the target in words).
+TARGETS = (
+    ("demo optimize model / scan, whole processes", "optimizer",
+     ("demo: towercost optimize model / scan, wall (median of pairs)",), lambda v: v <= 1.25, "<= 1.25 x"),
+    ("demo optimize end to end, wall", "optimizer", ("demo: towercost optimize, wall (median)",),
+     lambda v: v < 0.7, "< 0.7 s"),
+    *((f"{size} model / scan, in process", "scaling", (f"{size}: model / scan (median of pairs)",),
+       lambda v: v <= 2.0, "<= 2 x") for size in ("10^3", "10^4", "10^5", "10^6", "10^7")),
+    ("evaluation throughput, 10^7", "scaling", ("10^7: evaluation throughput",), lambda v: v >= 2e6,
+     ">= 2,000,000 designs/s"),
+    ("peak memory, 10^7", "scaling", ("10^7: peak memory",), lambda v: v < 1024.0, "< 1024 MiB"),
+)
+
+
+def verdicts(table) -> list[tuple[str, float | None, str, str]]:
+    """Each target with its measured figure and PASS or FAIL (MISSING where the figure was not measured)."""
+    found = {(section, name): value for section, name, value, _ in table}
+    rows = []
+    for what, section, names, test, target in TARGETS:
+        values = [found[(section, name)] for name in names if (section, name) in found]
+        if not values:
+            rows.append((what, None, target, "MISSING"))
+            continue
+        rows.append((what, values[0], target, "PASS" if all(test(v) for v in values) else "FAIL"))
+    return rows
+
+
 def main() -> list[tuple[str, str, float, str]]:
     table = []
     start = time.perf_counter()
@@ -94,6 +121,10 @@ def main() -> list[tuple[str, str, float, str]]:
     print(f"{'-' * 10} {'-' * width} {'-' * 12} {'-' * 9}")
     for section, name, value, unit in table:
         print(f"{section:10s} {name:{width}s} {_text(value):>12s} {unit}")
+    print(f"\n{'target (issue 7)':42s} {'measured':>12s} {'target':>24s} verdict")
+    for what, value, target, verdict in verdicts(table):
+        shown = "-" if value is None else _text(value)
+        print(f"{what:42s} {shown:>12s} {target:>24s} {verdict}")
     print(f"\nall benchmarks: {total:.1f} s")
     return table
 

@@ -1379,8 +1379,12 @@ class OperatingRange:
     residence_time: np.ndarray
     utilization: np.ndarray
     in_range: np.ndarray
-    governs: np.ndarray
     warnings: list[str] = field(default_factory=list)
+
+    @property
+    def governs(self) -> np.ndarray:
+        """The name of the most utilized limit per point (from ``utilization``, built when asked for)."""
+        return np.asarray(LIMIT_NAMES)[np.argmax(self.utilization, axis=-1)]
 
 
 def tray_operating_range(
@@ -1508,21 +1512,27 @@ def tray_operating_range(
         ],
         axis=-1,
     )
-    governs = np.asarray(LIMIT_NAMES)[np.argmax(utilization, axis=-1)]
     if warnings is not None:
         warnings.extend(local)
     return OperatingRange(
-        fraction_of_flood=np.broadcast_to(flood, shape).astype(float),
-        weep_ratio=np.broadcast_to(weep_ratio, shape).astype(float),
-        entrainment=np.broadcast_to(psi, shape).astype(float),
-        backup_height=np.broadcast_to(backup, shape).astype(float),
-        backup_fraction=np.broadcast_to(backup_fraction, shape).astype(float),
-        residence_time=np.broadcast_to(residence, shape).astype(float),
+        fraction_of_flood=_own(flood, shape),
+        weep_ratio=_own(weep_ratio, shape),
+        entrainment=_own(psi, shape),
+        backup_height=_own(backup, shape),
+        backup_fraction=_own(backup_fraction, shape),
+        residence_time=_own(residence, shape),
         utilization=utilization,
         in_range=np.all(utilization <= 1.0, axis=-1),
-        governs=governs,
         warnings=local,
     )
+
+
+def _own(values, shape) -> np.ndarray:
+    """``values`` as a writable float array of ``shape`` of its own: itself when it is one already, else a copy."""
+    if (isinstance(values, np.ndarray) and values.shape == shape and values.dtype == np.float64
+            and values.base is None and values.flags.writeable):
+        return values
+    return np.broadcast_to(values, shape).astype(float)
 
 
 def downcomer_diameter(

@@ -16,6 +16,8 @@ ranges (``towercost.scenario.editor``).
 
 from __future__ import annotations
 
+import functools
+
 import math
 import re
 import typing
@@ -137,11 +139,9 @@ class Envelope:
         if self.usual is not None:
             extra["x-usual"] = self.usual_words()
         if self.si:
-            from towercost.scenario.units import registry, words as in_words
-
             example = f"{self.typical():g} {self.show}"
             words += f"; give a unit, e.g. \"{example}\""
-            dimension = in_words(registry().Quantity(1, self.si).dimensionality)
+            dimension = _dimension_words(self.si)
             return {"type": "string", "pattern": QUANTITY_PATTERN, "description": words, "x-description": words,
                     "examples": [example], "x-dimension": dimension, "x-unit": self.show, "x-si-unit": self.si,
                     **extra}
@@ -156,6 +156,14 @@ class Envelope:
         words += "; a bare number (or a ratio of like units, \"0.06 lb/lb\", or a percentage, \"80 %\")"
         return {"anyOf": [number, {"type": "string", "pattern": RATIO_PATTERN}], "description": words,
                 "x-description": words, "x-dimension": "a pure number", **extra}
+
+
+@functools.lru_cache(maxsize=None)
+def _dimension_words(si: str) -> str:
+    """The dimension of an SI unit's text in words ("a mass flow"); parsed once per unit (schema fields share them)."""
+    from towercost.scenario.units import registry, words as in_words
+
+    return in_words(registry().Quantity(1, si).dimensionality)
 
 
 def _basis(info):
