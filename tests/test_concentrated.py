@@ -4,8 +4,8 @@ Published figures: Treybal, Mass-Transfer Operations, 3rd ed. (1980),
 Illustration 8.2 (p. 286: coal-gas benzene absorber with wash oil, and the
 steam stripper of the rich oil) and Illustration 8.3 (p. 292: the same by the
 Kremser relation with averaged factors). The book itself was not available;
-its figures were read from a stored public transcription of the two worked
-solutions (a Scilab transcription that quotes the book's numbers and figure
+its figures were read from a stored public re-typed copy of the two worked
+solutions (a Scilab re-typed copy that quotes the book's numbers and figure
 readings). Treybal reads the tangent pinches and the stage counts off his
 own charts, so his figures carry chart-reading error of a few per cent.
 """

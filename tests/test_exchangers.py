@@ -3,7 +3,7 @@
 Published examples: Kern, Process Heat Transfer, McGraw-Hill (1950), Example 7.3
 (the F_T of a 1-2 kerosene-crude exchanger) and Example 7.9 (outlet temperatures
 of the same exchanger when clean, from the Ten Broeck chart), read in stored
-public copies (a page image of the book for 7.9, a transcription of the worked
+public copies (a page image of the book for 7.9, a re-typed copy of the worked
 solution for 7.3); Turton, Bailie, Whiting and Shaeiwitz, Analysis, Synthesis
 and Design of Chemical Processes, 3rd ed. (2009), Examples 7.10 to 7.12
 (floating-head exchanger costs), read in a stored copy of the book. Kern reads
