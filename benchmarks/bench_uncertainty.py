@@ -59,8 +59,11 @@ def _fixed(scenario, case, design, samples):
 def _check_closed_form() -> None:
     raw = tomllib.loads(DEMO.read_text(encoding="utf-8"))
     raw["feed"]["composition"] = {"toluene": "500 ppmv"}
+    raw["feed"]["diffusivity"] = {"toluene": raw["feed"]["diffusivity"]["toluene"]}
+    raw["solute"] = {"toluene": raw["solute"]["toluene"]}
     raw["spec"] = raw["spec"][:1]
-    raw["solvent"] = [dict(raw["solvent"][2], k={"toluene": 0.12})]
+    glycol = raw["solvent"][2]
+    raw["solvent"] = [dict(glycol, k={"toluene": 0.12}, diffusivity={"toluene": glycol["diffusivity"]["toluene"]})]
     raw["column"]["efficiency"] = 0.5
     raw["uncertainty"] = {"efficiency": {"distribution": "fixed"}}
     scenario = towercost.from_dict(raw)
