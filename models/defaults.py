@@ -97,3 +97,34 @@ CONFIDENCE = 0.90
 
 #: One-at-a-time change of each input in a sensitivity study, +- fraction of its nominal value [-]; common practice.
 SENSITIVITY_CHANGE = 0.20
+
+# --------------------------------------------------------------------------- regenerated solvent loop
+
+#: Approach temperature of the lean/rich cross exchanger [K]: 10 K, common practice.
+APPROACH = 10.0
+
+#: Overall heat-transfer coefficients of the loop's shell-and-tube exchangers [W/(m2 K)], mid-range of the
+#: typical values tabulated by Sinnott, Coulson & Richardson's Chemical Engineering Vol. 6, 4th ed.,
+#: Table 12.1 (values from memory): light organic to light organic 100-300 (cross exchanger), water to
+#: light organic 350-900 (lean cooler), condensing steam to light organic 500-1000 (heater, reboiler).
+U_CROSS = 250.0
+U_COOLER = 500.0
+U_HEATER = 700.0
+
+#: Cooling water temperature rise across the lean cooler [K] and its supply temperature [K]: common practice.
+COOLING_WATER_IN = 273.15 + 25.0
+COOLING_WATER_RISE = 10.0
+
+#: Saturated steam for heaters and reboilers [K]: about 6 barg (160 degC), common practice.
+STEAM_TEMPERATURE = 273.15 + 160.0
+
+#: Lean levels K x_lean / y_out searched when the scenario does not say: [0.05, 0.8], 8 levels, common practice.
+LEAN_RANGE = (0.05, 0.8)
+LEAN_LEVELS = 8
+
+#: Regenerator trays searched when the scenario does not say [real trays].
+REGENERATOR_TRAYS = (2, 30)
+
+#: A solute whose steady lean loading exceeds this fraction of its loading in equilibrium with the feed
+#: gas is reported as building up around the loop [-]: common practice.
+BUILD_UP = 0.5

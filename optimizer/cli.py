@@ -385,9 +385,10 @@ def _length(text: Optional[str], option: str) -> Optional[float]:
 
 def _design(data, design: str):
     """The decisions an identifier names, checked against the scenario's candidates."""
+    from towercost.design.loop_case import candidate_names
     from towercost.report import ids
 
-    return _run(lambda: ids.parse(design, [a.name for a in data.agents],
+    return _run(lambda: ids.parse(design, candidate_names(data),
                                   [(p.label, p.packing) for p in data.packing]))
 
 

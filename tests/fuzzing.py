@@ -27,7 +27,8 @@ MAX_SECONDS = 10.0
 
 #: Keys whose value may be null in a JSON record (not a figure, or "not given").
 NULLABLE = {"spec_mole_fraction", "spec_concentration", "cost_index_year", "fraction_removed", "k_value",
-            "gas_out", "liquid_out", "existing_shell", "spec_note", "binding_spec", "pump_head_m"}
+            "gas_out", "liquid_out", "existing_shell", "spec_note", "binding_spec", "pump_head_m",
+            "loop"}   # loop: null for a design without a designed regenerator
 #: Keys null by design in one kind of column: the packed-bed block of a tray design, and the tray
 #: figures of a packed design.
 TRAY_ONLY = {"tray_efficiency", "tray_spacing_m", "tray_type", "operating_range", "pressure_drop_per_tray_Pa"}

@@ -10,6 +10,7 @@ Shapes: ``(n_agents, n_solutes)`` where two axes are shown.
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass
 
 import numpy as np
@@ -150,6 +151,10 @@ class Case:
     gas_viscosity: np.ndarray | None = None   # (n_agents,) [Pa s]; NaN where not given
     gas_diffusivity: np.ndarray | None = None     # (n_agents, n_solutes) [m2/s] of each solute in the gas; NaN
     liquid_diffusivity: np.ndarray | None = None  # (n_agents, n_solutes) [m2/s] in the liquid; NaN
+    # the regenerated loop (towercost.design.loop_case): None without a designed regenerator
+    loop: object | None = None                # LoopData: each expanded candidate's parent and lean level
+    agent_supply: np.ndarray | None = None    # (n_agents,) [Pa] each candidate's pump takes suction at; None: supply_pressure
+    gas_mover: bool = True                    # the gas is moved by a fan or blower (False: steam from its header)
 
     @property
     def mode(self) -> str:
@@ -320,7 +325,7 @@ def prepare(scenario: Scenario) -> Case:
     economics_inputs = _economics(scenario)
     gas_mu, gas_d, liquid_d = _transport(scenario, service)
     stages = col.stages if col.stages is not None else (1, col.trays[1])
-    return Case(
+    case = Case(
         name=scenario.case.name, service=service, agents=tuple(a.name for a in agents), solutes=tuple(solutes),
         feed_flow=feed.flow, temperature=feed.temperature, pressure=feed.pressure,
         feed_in=feed_in, target=target, k_value=k_value, lean=lean, efficiency=eff, murphree=murphree,
@@ -350,6 +355,17 @@ def prepare(scenario: Scenario) -> Case:
         packing_materials=None if col.packing_materials is None else tuple(col.packing_materials),
         gas_viscosity=gas_mu, gas_diffusivity=gas_d, liquid_diffusivity=liquid_d,
     )
+    from towercost.design.loop_case import expand_loops
+
+    expanded = expand_loops(case, scenario, notes)
+    return expanded if expanded is case else dataclasses.replace(expanded, notes=tuple(notes))
+
+
+def supply_pressure_of(case: Case, agent):
+    """The pressure each candidate's liquid is pumped from [Pa]: the regenerator's for a loop, else the scenario's."""
+    if case.agent_supply is None:
+        return case.supply_pressure
+    return case.agent_supply[agent]
 
 
 def agent_index(case: Case, name: str) -> int:

@@ -35,7 +35,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from towercost.design import cascade, packed
-from towercost.design.case import Case
+from towercost.design.case import Case, supply_pressure_of
 from towercost.design.costlines import (AGENT, COOLING, DISPOSAL, ELECTRICITY, STEAM, Equipment, ItemSpec, Uses,
                                         annualize, credit_spec, price_gas_mover, price_item)
 from towercost.design.designs import Designs, Figures
@@ -75,6 +75,9 @@ def shell_spec(case: Case) -> ItemSpec:
     return ItemSpec(SHELL.key, SHELL.tag, f"tower shell, existing (modifications at {100 * case.shell_modification:g} % "
                     "of a new shell)", SHELL.correlation)
 
+#: Figures an ``Extra`` adds to the column's own rather than replacing.
+ADDED_UP = ("steam_rate", "cooling_rate")
+
 #: Rate grid points closer than this (relative) to the least rate are not offered again.
 SAME_RATE = 1e-9
 
@@ -102,6 +105,7 @@ class Separation:
     cache: LeastCache = field(default=None)   # least shells per tray type, found once for every size tried
     fixed: list = field(default_factory=list)  # the Fixed part, once found (priced without messages)
     internals: np.ndarray = field(default=None)   # per point: -1 the tray rule, 0/1 a tray type, >= 2 a packing
+    extra: "Extra | None" = None    # equipment and uses beyond this column that its diameter does not change
 
     def __post_init__(self):
         if self.cache is None:
@@ -112,7 +116,26 @@ class Separation:
     def take(self, index) -> "Separation":
         return Separation(self.agent[index], self.trays[index], self.rate[index],
                           Figures(source=self.figures, index=index), self.loads.take(index),
-                          self.cache.take(index), [f.take(index) for f in self.fixed], self.internals[index])
+                          self.cache.take(index), [f.take(index) for f in self.fixed], self.internals[index],
+                          None if self.extra is None else self.extra.take(index))
+
+
+@dataclass(frozen=True)
+class Extra:
+    """Equipment, power and uses a flowsheet adds beside the column (a regenerated loop's), per design point."""
+
+    items: tuple                    # ItemCost rows
+    electric: np.ndarray            # [W] drawn beside the column's pump and gas mover
+    uses: tuple                     # (UseSpec, rate, unit price) rows
+    figures: dict                   # figures added, or replacing the column's (steam_rate, cooling_rate, ...)
+    notes: tuple = ()               # range messages of the added items
+
+    def take(self, index) -> "Extra":
+        def part(value):
+            return value[index] if np.ndim(value) else value
+        return Extra(tuple(item.take(index) for item in self.items), part(self.electric),
+                     tuple((spec, part(rate), part(price)) for spec, rate, price in self.uses),
+                     {k: part(v) for k, v in self.figures.items()}, self.notes)
 
 
 @dataclass(frozen=True)
@@ -438,9 +461,17 @@ class SingleColumn:
         pump_shaft, q_gas = fixed.pump_shaft, fixed.q_gas
         gas_supply = service.gas_supply_pressure(case.pressure)
         blower_rise = sizing.pressure_drop + defaults.BLOWER_ALLOWANCE + max(case.pressure - gas_supply, 0.0)
-        blower_shaft = economics.blower_power(q_gas, gas_supply, blower_rise, case.blower_efficiency)
+        if case.gas_mover:
+            blower_shaft = economics.blower_power(q_gas, gas_supply, blower_rise, case.blower_efficiency)
+        else:     # steam from its header: no gas mover
+            blower_rise, blower_shaft = np.zeros(rate.shape), np.zeros(rate.shape)
         electric = (economics.electric_power(pump_shaft, case.motor_efficiency)
                     + economics.electric_power(blower_shaft, case.motor_efficiency))
+        extra = separation.extra
+        if extra is not None:
+            electric = electric + extra.electric
+            if notes is not None:
+                notes.extend(extra.notes)
 
         # Equipment rows, each at its correlation's cost basis.
         p_gauge = np.maximum(p_design, 0.0)
@@ -450,14 +481,31 @@ class SingleColumn:
             shell = shell.scaled(case.shell_modification, self.shell)
         items = [shell]
         items += self.internals.items(sizing, trays, warnings=notes)
-        items += [*fixed.items,
-                  price_gas_mover(FAN, BLOWER, q_gas, blower_rise, warnings=notes),
-                  price_item(self.blower_drive, blower_shaft / 1000.0, warnings=notes)]
+        items += fixed.items
+        if case.gas_mover:
+            items += [price_gas_mover(FAN, BLOWER, q_gas, blower_rise, warnings=notes),
+                      price_item(self.blower_drive, blower_shaft / 1000.0, warnings=notes)]
+        if extra is not None:
+            items += extra.items
         equipment = Equipment.stack(items)
 
         # Consumption rows.
         eco = case.economics
-        uses = Uses.stack([(ELECTRICITY, electric, eco.electricity), *fixed.uses])
+        rows = [(ELECTRICITY, electric, eco.electricity), *fixed.uses]
+        if extra is not None:   # a use the column already has (steam, cooling water) takes the extra's rate too
+            keys = [spec.key for spec, _, _ in rows]
+            for spec, use_rate, unit_price in extra.uses:
+                if spec.key in keys:
+                    j = keys.index(spec.key)
+                    rows[j] = (spec, rows[j][1] + use_rate, rows[j][2])
+                else:
+                    rows.append((spec, use_rate, unit_price))
+        uses = Uses.stack(rows)
+        fixed_figures = fixed.figures
+        if extra is not None:   # the loop's steam and cooling water add to the column's own
+            fixed_figures = dict(fixed.figures)
+            for key, value in extra.figures.items():
+                fixed_figures[key] = fixed_figures[key] + value if key in ADDED_UP and key in fixed_figures else value
         annual = annualize(equipment, uses, eco)
 
         figures = Figures(dict(
@@ -468,7 +516,7 @@ class SingleColumn:
             head_weight=heads_kg, vessel_weight=shell_kg + heads_kg, tray_weight=trays_kg, volume=volume,
             cross_section=area, liquid_volumetric_flow=fixed.q_liquid, pump_head=fixed.pump_rise,
             pump_shaft_power=pump_shaft, gas_inlet_flow=q_gas, blower_rise=blower_rise, blower_shaft_power=blower_shaft,
-            electric_power=electric, **fixed.figures,
+            electric_power=electric, **fixed_figures,
             bare_module=annual.bare_module, total_module=annual.total_module, installed=annual.installed,
             operating=annual.operating, credit=annual.credit, capital_charge=annual.capital_charge,
             annualized=annual.annualized,
@@ -489,12 +537,13 @@ class SingleColumn:
         agent, loads = separation.agent, separation.loads
         liquid_mass, gas_mass, rho_l = loads.liquid_mass_flow, loads.gas_mass_flow, loads.liquid_density
         q_liquid = liquid_mass / rho_l
-        pump_rise = (np.maximum(case.pressure - case.supply_pressure, 0.0) + rho_l * GRAVITY * height
+        supply = supply_pressure_of(case, agent)
+        pump_rise = (np.maximum(case.pressure - supply, 0.0) + rho_l * GRAVITY * height
                      + defaults.PUMP_ALLOWANCE)
         pump_shaft = economics.pump_power(q_liquid, pump_rise, case.pump_efficiency)
         gas_supply = service.gas_supply_pressure(case.pressure)
         q_gas = gas_mass / ideal_gas_density(gas_supply, case.temperature, case.gas_molar_mass[agent])
-        pump_discharge = case.supply_pressure + pump_rise - STANDARD_ATMOSPHERE
+        pump_discharge = supply + pump_rise - STANDARD_ATMOSPHERE
         items = (price_item(PUMP, pump_shaft / 1000.0, material=case.material, pressure_gauge=pump_discharge,
                             warnings=notes),
                  price_item(self.pump_drive, pump_shaft / 1000.0, warnings=notes))

@@ -196,9 +196,9 @@ def check_size(case: Case, agents=None, *, memory: int | None = None) -> int:
     The bound is the flowsheet's own (``SingleColumn.estimate``); nothing is
     evaluated. ``memory`` [bytes] overrides the memory free.
     """
-    from towercost.design.column import SingleColumn
+    from towercost.design.loop import flowsheet_for
 
-    flowsheet = SingleColumn(case)
+    flowsheet = flowsheet_for(case)
     total = flowsheet.estimate()
     n_agents = max(len(case.agents), 1)
     estimate = total if agents is None else total * len(agents) // n_agents

@@ -26,6 +26,7 @@ import numpy as np
 
 from towercost.design.case import Case
 from towercost.design.column import CHUNK, SingleColumn
+from towercost.design.loop import flowsheet_for
 from towercost.design.designs import Designs
 from towercost.design.internals import FIRST_PACKING
 from towercost.design.limits import limit_table
@@ -175,7 +176,7 @@ def build_space(case: Case, agents=None, *, keep: tuple[str, ...] = (), chunk: i
     column of; ``progress(done, expected)`` is called after each chunk, with
     ``expected`` projected from the share of (agent, trays) groups done.
     """
-    flowsheet = SingleColumn(case)
+    flowsheet = flowsheet_for(case)
     chosen = np.arange(len(case.agents)) if agents is None else np.asarray(agents, dtype=int)
     share = chosen.size / max(len(case.agents), 1)
     estimate = int(flowsheet.estimate() * share)

@@ -22,6 +22,7 @@ import io
 import math
 from pathlib import Path
 
+from towercost.design.case import supply_pressure_of
 from towercost.models import costing
 from towercost.models.constants import GRAVITY, STANDARD_ATMOSPHERE
 from towercost.report.records import USE_UNITS, internals_name, packing_choice, to_json, used_rows
@@ -91,7 +92,7 @@ def _trays(case, d, i):
 
 def _pump(case, d, i):
     rho = d.liquid_mass_flow[i] / d.liquid_volumetric_flow[i] if d.liquid_volumetric_flow[i] > 0 else math.nan
-    discharge = case.supply_pressure + d.pump_head[i] - STANDARD_ATMOSPHERE
+    discharge = supply_pressure_of(case, int(d.agent[i])) + d.pump_head[i] - STANDARD_ATMOSPHERE
     return {"type": "centrifugal pump",
             "key_sizes": f"{d.liquid_volumetric_flow[i] * 3600:.2f} m3/h, {d.pump_head[i] / (rho * GRAVITY):.1f} m "
                          f"head ({d.pump_head[i] / 1000:.1f} kPa), {d.pump_shaft_power[i] / 1000:.2f} kW shaft; "

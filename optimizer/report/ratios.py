@@ -17,7 +17,7 @@ from decimal import ROUND_CEILING, Decimal
 import numpy as np
 
 from towercost.design import cascade
-from towercost.design.column import SingleColumn
+from towercost.design.loop import flowsheet_for
 
 #: Fewest and most decimals tried; past the most the shortest round-trip text is printed.
 DECIMALS = (3, 12)
@@ -50,7 +50,7 @@ def ratio_texts(case, designs) -> list[str]:
     typed = np.array([[float(t) for t in row] for row in candidates])              # (m, steps)
     pick = np.repeat(finite, steps.size)
     internals = designs.internals[pick] if "internals" in designs.figures else None
-    tried = SingleColumn(case).evaluate(designs.agent[pick], designs.trays[pick],
+    tried = flowsheet_for(case).evaluate(designs.agent[pick], designs.trays[pick],
                                         typed.ravel() * designs.rate_min[pick], designs.diameter[pick], internals)
     same = (tried.meets_spec & (np.abs(tried.annualized - designs.annualized[pick]) < SAME_COST)
             ).reshape(finite.size, steps.size)

@@ -279,7 +279,7 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
             "tray_efficiency": None if packed else float(d.efficiency[i, s]),
             "k_value": float(case.k_value[a, s]),
             "agent_outlet_mole_fraction": float(d.agent_outlet[i, s]),
-            "agent_inlet_mole_fraction": float(case.lean[a, s]),
+            "agent_inlet_mole_fraction": float(d.lean_loading[i, s]) if _looped(d, i) else float(case.lean[a, s]),
             **concentration_fields(case, a, s, inlet, out, float(case.target[s]), float(d.agent_outlet[i, s])),
         }
     items = equipment_rows(case, d, i)
@@ -375,6 +375,54 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
         "annualized_cost_USD_per_yr": float(d.annualized[i]),
         "equipment": items,
         "consumption": uses,
+        **({"loop": loop_record(case, d, i)} if case.loop is not None else {}),
+    }
+
+
+def _looped(d, i: int) -> bool:
+    return "loop_looped" in d.figures and bool(d.loop_looped[i])
+
+
+def loop_record(case, d, i: int) -> dict | None:
+    """The regenerated loop of design ``i`` (None: the design has no designed regenerator)."""
+    if not _looped(d, i):
+        return None
+    data = case.loop.regenerator(int(d.agent[i]))
+    return {
+        "parent_candidate": case.loop.parents[int(case.loop.parent[int(d.agent[i])])],
+        "key_solute": case.solutes[data.key],
+        "lean_level": float(d.lean_level[i]),
+        "circulation_mol_s": float(d.rate[i]), "circulation_kg_s": float(d.liquid_mass_flow[i]),
+        "basis": "dilute Kremser" if float(np.max(d.rich_loading[i])) <= case.max_dilute
+                 else "dilute Kremser (rich loading above the dilute threshold)",
+        "regenerator": {
+            "stripping": data.stripping, "temperature_K": data.temperature, "pressure_Pa": data.pressure,
+            "trays": int(d.regenerator_trays[i]), "diameter_m": float(d.regenerator_diameter[i]),
+            "height_m": float(d.regenerator_height[i]),
+            "fraction_of_flood": float(d.regenerator_fraction_of_flood[i]),
+            "within_its_limits": bool(d.regenerator_ok[i]),
+            "vapour_mol_s": float(d.regenerator_vapour[i]),
+            "tray_efficiency": {s: float(data.efficiency[k]) for k, s in enumerate(case.solutes)},
+            "k_value": {s: float(data.k_value[k]) for k, s in enumerate(case.solutes)},
+        },
+        "heat_exchange": {
+            "approach_K": data.approach,
+            "cross_duty_W": float(d.cross_duty[i]), "cross_area_m2": float(d.cross_area[i]),
+            "cooler_duty_W": float(d.cooler_duty[i]), "cooler_area_m2": float(d.cooler_area[i]),
+            "heater_duty_W": float(d.heater_duty[i]), "heater_area_m2": float(d.heater_area[i]),
+            "reboiler_duty_W": float(d.reboiler_duty[i]), "reboiler_area_m2": float(d.reboiler_area[i]),
+        },
+        "steam_kg_s": {"live": float(d.live_steam[i]), "loop_total": float(d.loop_steam[i])},
+        "cooling_water_m3_s": float(d.loop_cooling[i]),
+        "solvent_vapour_loss_kg_s": float(d.vapour_loss[i]),
+        "solutes": {s: {"lean_mole_fraction": float(d.lean_loading[i, k]),
+                        "rich_mole_fraction": float(d.rich_loading[i, k]),
+                        "stripping_factor": float(d.stripping_factor[i, k]),
+                        "build_up": float(d.build_up[i, k]),
+                        "overhead_mole_fraction": float(d.regenerator_overhead[i, k]),
+                        "treated_gas_outlet_mole_fraction": float(d.outlet[i, k]),
+                        "loop_balance_relative": float(d.loop_balance[i, k])}
+                    for k, s in enumerate(case.solutes)},
     }
 
 

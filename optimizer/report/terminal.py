@@ -154,7 +154,62 @@ def print_design(console: Console, case: Case, d: Designs, warnings: list[str], 
         _packed_pairs(console, case, d, i)
     else:
         _tray_pairs(console, case, d, i)
+    if "loop_looped" in d.figures and bool(d.loop_looped[i]):
+        _loop_pairs(console, case, d, i)
     _costs(console, case, d, i, warnings)
+
+
+def _agent_text(case, a: int, s: int, x: float) -> str:
+    """Solute ``s`` at mole fraction ``x`` in candidate ``a``'s phase, in the unit the scenario shows it in."""
+    shown = getattr(case, "concentrations", None)
+    if shown is None:
+        return mole_fraction_text(x)
+    value, unit = shown.agent(a, s, x)
+    return f"{value:.4g} {unit}"
+
+
+def _loop_pairs(console: Console, case, d, i: int) -> None:
+    """The regenerated loop of design ``i``: regenerator, exchangers, and every solute around the loop."""
+    data = case.loop.regenerator(int(d.agent[i]))
+    vapour = "live steam" if data.stripping == "steam" else "reboiled solvent vapour"
+    basis = ("dilute Kremser (straight lines)" if float(np.max(d.rich_loading[i])) <= case.max_dilute
+             else f"dilute Kremser, rich loading above the dilute threshold {case.max_dilute:g} (see the warnings)")
+    _title(console, "Regenerated loop (estimating figures)")
+    pairs = [
+        ("lean level K x_lean / y_out (key)", f"{d.lean_level[i]:.3g} ({case.solutes[data.key]})"),
+        ("circulation", f"{d.liquid_mass_flow[i] * 3600 / 1000:,.2f} t/h ({d.rate[i] * KMOL_H:,.2f} kmol/h)"),
+        ("regenerator", f"{int(d.regenerator_trays[i])} real trays, D {d.regenerator_diameter[i]:.3f} m, "
+                        f"{d.regenerator_height[i]:.2f} m tangent to tangent, fraction of flood "
+                        f"{d.regenerator_fraction_of_flood[i]:.3f}, at {data.temperature - 273.15:.4g} degC and "
+                        f"{data.pressure / 1e5:.4g} bara{'' if d.regenerator_ok[i] else ' (OUTSIDE ITS LIMITS)'}"),
+        ("stripping vapour", f"{vapour}, {d.regenerator_vapour[i] * KMOL_H:,.2f} kmol/h"),
+        ("steam: live / heater and reboiler", f"{d.live_steam[i] * 3600:,.0f} kg/h / "
+                                              f"{(d.loop_steam[i] - d.live_steam[i]) * 3600:,.0f} kg/h"),
+        ("cross exchanger", f"{d.cross_duty[i] / 1000:,.0f} kW, {d.cross_area[i]:,.1f} m2 (approach "
+                            f"{data.approach:g} K)"),
+        ("lean cooler", f"{d.cooler_duty[i] / 1000:,.0f} kW, {d.cooler_area[i]:,.1f} m2, cooling water "
+                        f"{d.loop_cooling[i] * 3600:,.1f} m3/h"),
+        ("rich heater", f"{d.heater_duty[i] / 1000:,.0f} kW, {d.heater_area[i]:,.1f} m2"),
+    ]
+    if data.stripping == "reboiled":
+        pairs.append(("reboiler", f"{d.reboiler_duty[i] / 1000:,.0f} kW, {d.reboiler_area[i]:,.1f} m2"))
+    pairs += [("solvent lost as vapour", f"{d.vapour_loss[i] * 3600:,.2f} kg/h"), ("basis", basis)]
+    _lines(console, [layout.Column("item", left=True), layout.Column("value", left=True, wrap=True)],
+           [layout.Row(list(p)) for p in pairs])
+    rows = []
+    for s, solute in enumerate(case.solutes):
+        rows.append(layout.Row([solute, _agent_text(case, int(d.agent[i]), s, float(d.lean_loading[i, s])),
+                                _agent_text(case, int(d.agent[i]), s, float(d.rich_loading[i, s])),
+                                f"{d.stripping_factor[i, s]:.3g}",
+                                concentration_text(case, s, float(d.outlet[i, s])),
+                                f"{d.build_up[i, s]:.3g}", f"{d.loop_balance[i, s]:.1e}"]))
+    _lines(console, [layout.Column("solute", left=True), layout.Column("lean"), layout.Column("rich"),
+                     layout.Column("S regen."), layout.Column("gas outlet"), layout.Column("build-up"),
+                     layout.Column("loop balance")], rows)
+    console.print("  lean, rich: solute in the solvent entering and leaving the absorber (the loop's steady "
+                  "state); S: the regenerator's stripping factor; build-up: the lean loading over the loading in "
+                  "equilibrium with the feed gas; loop balance: (in - out - regenerator overhead) / in",
+                  markup=False, highlight=False, style="dim", soft_wrap=True)
 
 
 def _tray_pairs(console: Console, case, d, i: int) -> None:

@@ -399,3 +399,13 @@ def _walk(value, annotation, envelope, path) -> list:
         if envelope.unusual(float(value)):
             return [(path, envelope, float(value))]
     return []
+
+# The regenerated loop ([solvent.regenerator], [stripping_gas.regenerator]).
+APPROACH = E("approach temperature difference of the lean/rich cross exchanger", "K", "K", 0.0, 200.0,
+             low_open=True, usual=(3.0, 30.0), example=10.0)
+HEAT_CAPACITY = E("liquid heat capacity", "J/(kg*K)", "kJ/(kg*K)", 0.1, 50.0, usual=(0.8, 5.0), example=2.0)
+HEAT_COEFFICIENT = E("overall heat-transfer coefficient", "W/(m^2*K)", "W/(m^2*K)", 1.0, 20000.0,
+                     usual=(50.0, 3000.0), example=300.0)
+LATENT_HEAT = E("latent heat of vaporization", "J/kg", "kJ/kg", 1.0, 1e5, usual=(100.0, 2500.0), example=300.0)
+LEAN_LEVEL = E("lean level K x_lean / y_out", "", "", 0.0, 1.0, low_open=True, high_open=True)
+LEAN_LEVELS = E("lean levels", "", "", 1, 200, integer=True)

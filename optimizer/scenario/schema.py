@@ -251,6 +251,57 @@ class VapourPressure(_Table):
 KSource = number(env.K_VALUE) | Henry | VapourPressure
 
 
+class Regenerator(_Table):
+    """The regenerator of a circulated solvent: a stripping column, its exchangers and pumps, all priced.
+
+    Lean loading becomes a decision: the levels of K x_lean / y_out of the key solute searched.
+    """
+
+    temperature: Annotated[Temperature, _described("regenerator temperature (isothermal)")]  # [K]
+    pressure: Annotated[quantity(env.COLUMN_PRESSURE, absolute=True), _described("absolute, at the regenerator")]
+    stripping: Literal["steam", "reboiled"] = Field("steam", description="steam: live steam fed below the bottom "
+                                                    "tray; reboiled: the solvent's own vapour from a kettle reboiler")
+    k: dict[Annotated[str, Field(min_length=1, max_length=MAX_NAME)], KSource] = Field(
+        {}, max_length=MAX_SOLUTES, description="per solute: K = y/x at the regenerator; a solute left out takes "
+        "its absorber Henry's-law data at the regenerator's temperature and pressure")
+    trays: tuple[Trays, Trays] = Field(defaults.REGENERATOR_TRAYS, description="range of regenerator real trays "
+                                       "searched, [low, high]")
+    efficiency: Annotated[number(env.EFFICIENCY) | None, _described(
+        "overall tray efficiency; unset: O'Connell's correlation at the regenerator's K and the solvent viscosity "
+        "below")] = None
+    viscosity: Annotated[Viscosity | None, _described("solvent viscosity at the regenerator; unset: the "
+                                                      "solvent's (conservative for O'Connell)")] = None
+    lean_range: tuple[number(env.LEAN_LEVEL), number(env.LEAN_LEVEL)] = Field(
+        defaults.LEAN_RANGE, description="range of the lean level K x_lean / y_out of the key solute, [low, high]")
+    lean_levels: number(env.LEAN_LEVELS) = defaults.LEAN_LEVELS
+    key: Annotated[str | None, _described("the solute whose lean loading is the decision; unset: the first with "
+                                          "a spec")] = None
+    heat_capacity: Annotated[quantity(env.HEAT_CAPACITY), _described("of the solvent")]  # [J/(kg K)]
+    latent_heat: Annotated[quantity(env.LATENT_HEAT) | None, _described(
+        "of the solvent at the regenerator (stripping = 'reboiled')")] = None  # [J/kg]
+    approach: Annotated[quantity(env.APPROACH, only=("K",)), _described(
+        "hot-end approach of the lean/rich cross exchanger")] = defaults.APPROACH  # [K]
+    u_cross: quantity(env.HEAT_COEFFICIENT) = defaults.U_CROSS      # [W/(m2 K)]
+    u_cooler: quantity(env.HEAT_COEFFICIENT) = defaults.U_COOLER    # [W/(m2 K)]
+    u_heater: quantity(env.HEAT_COEFFICIENT) = defaults.U_HEATER    # [W/(m2 K)]
+    vapour_pressure: Annotated[quantity(env.VAPOUR_PRESSURE, absolute=True), _described(
+        "of the solvent at the absorber (its loss to the treated gas)")] = 0.0  # [Pa]
+    vapour_pressure_hot: Annotated[quantity(env.VAPOUR_PRESSURE, absolute=True), _described(
+        "of the solvent at the regenerator (its loss to the overhead)")] = 0.0  # [Pa]
+    once_through: StrictBool = Field(False, description="true: the same solvent is also offered once through "
+                                     "(bought fresh, spent solvent disposed of), competing in one ranking")
+
+    @model_validator(mode="after")
+    def _ranges(self):
+        if self.trays[0] > self.trays[1]:
+            raise ValueError(f"trays range {list(self.trays)} must be [low, high] with low <= high")
+        if self.lean_range[0] > self.lean_range[1]:
+            raise ValueError(f"lean_range {list(self.lean_range)} must be [low, high] with low <= high")
+        if self.stripping == "reboiled" and self.latent_heat is None:
+            raise ValueError("stripping = 'reboiled' needs latent_heat (of the solvent at the regenerator)")
+        return self
+
+
 class Agent(_Table):
     """A candidate solvent (absorb) or stripping gas (strip)."""
 
@@ -275,11 +326,22 @@ class Agent(_Table):
     regeneration_steam: number(env.STEAM_RATIO) = 0.0  # [kg steam / kg agent circulated]
     regeneration_cooling: quantity(env.COOLING_RATIO) = 0.0  # [m3 cooling water / kg agent circulated]
     efficiency: Annotated[number(env.EFFICIENCY) | None, _described("overall tray efficiency override")] = None
+    regenerator: Regenerator | None = Field(None, description="a designed and priced regenerator (solvents only); "
+                                            "replaces regeneration_steam and regeneration_cooling")
 
     @model_validator(mode="after")
     def _regeneration_consistent(self):
         if not self.regenerated and (self.regeneration_steam or self.regeneration_cooling or self.loss):
             raise ValueError("loss and regeneration_* apply only with regenerated = true")
+        if self.regenerator is not None:
+            if not self.regenerated:
+                raise ValueError("a regenerator applies only with regenerated = true")
+            if self.regeneration_steam or self.regeneration_cooling:
+                raise ValueError("give either a regenerator or regeneration_steam/regeneration_cooling, not both: "
+                                 "the regenerator's steam and cooling water are computed")
+            if self.lean:
+                raise ValueError("lean applies without a regenerator only: with one, the lean loadings are the "
+                                 "loop's (a decision for the key solute, the regenerator's outlet for the others)")
         return self
 
 

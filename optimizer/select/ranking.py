@@ -18,6 +18,7 @@ import numpy as np
 from towercost.design import cascade, packed
 from towercost.design.case import Case, agent_index, prepare
 from towercost.design.column import MAX_WIDER, SAME_RATE, SingleColumn
+from towercost.design.loop import flowsheet_for
 from towercost.design.limits import RATIO_TOLERANCE, SPEC_TOLERANCE
 from towercost.models import hydraulics
 from towercost.design.designs import Designs
@@ -166,6 +167,37 @@ def search_bounds(space: Space, i: int) -> list[tuple[str, str]]:
             if why:
                 out.append(("diameter", f"runs in a {space.diameter[i]:.3f} m shell, the widest tried for its rate; "
                                         + why))
+    if case.loop is not None and case.loop.looped[agent]:
+        out += _loop_bounds(space, i, agent)
+    return out
+
+
+def _loop_bounds(space: Space, i: int, agent: int) -> list[tuple[str, str]]:
+    """A loop design's lean level or regenerator trays at an end of their search."""
+    loop = space.case.loop
+    family = np.flatnonzero(loop.looped & (loop.parent == loop.parent[agent]))
+    level, levels = float(loop.level[agent]), loop.level[family]
+    data = loop.regenerator(agent)
+    span = f"[solvent.regenerator] lean_range = [{levels.min():.3g}, {levels.max():.3g}]"
+    out = []
+    # each lean level is a candidate of its own: its level is at an end only for the parent's best design
+    mine = space.feasible & np.isin(space.agent, family)
+    if not (mine.any() and space.cost[i] <= space.cost[mine].min()):
+        levels = levels[:1]
+    if levels.size > 1 and level >= levels.max():
+        out.append(("lean_high", f"runs at lean level {level:.3g}, the richest searched ({span}): raise the upper "
+                                 "value (below 1) to see whether a richer lean solvent pays"))
+    if levels.size > 1 and level <= levels.min():
+        out.append(("lean_low", f"runs at lean level {level:.3g}, the leanest searched ({span}): lower the first "
+                                "value to see whether a leaner solvent pays"))
+    trays = int(space.designs([i]).regenerator_trays[0])
+    lo, hi = data.trays_range
+    if trays >= hi:
+        out.append(("regenerator_high", f"has a regenerator of {trays} trays, the most searched ([solvent.regenerator]"
+                                        f" trays = [{lo}, {hi}]): raise the upper end to see whether more pay"))
+    if trays <= lo and lo > 1:
+        out.append(("regenerator_low", f"has a regenerator of {trays} trays, the fewest searched ([solvent.regenerator]"
+                                       f" trays = [{lo}, {hi}]): lower the first value to see whether fewer pay"))
     return out
 
 
@@ -404,7 +436,7 @@ def evaluate_design(scenario: Scenario, agent: str, trays: int | None, *, ratio:
         if not np.isfinite(rate_min):
             raise InfeasibleSpec(infeasible_reason(build_space(case, agents=[a])))
         rate = ratio * rate_min
-    d = SingleColumn(case).evaluate(np.array([a]), np.array([0 if kind is not None else trays]), np.array([rate]),
+    d = flowsheet_for(case).evaluate(np.array([a]), np.array([0 if kind is not None else trays]), np.array([rate]),
                                     None if diameter is None else np.array([diameter]),
                                     None if kind is None else np.array([kind]))
     return case, d, list(dict.fromkeys(d.warnings + dilute_checks(case, d)))
