@@ -137,6 +137,13 @@ def _spread(rows: list[tuple[np.ndarray, ItemCost]], n: int, variants: tuple) ->
                     in_range, material, variants, variant)
 
 
+def _vapour_loss(gas_rate, vapour_pressure: float, pressure: float) -> np.ndarray:
+    """Solvent carried off by a gas leaving in equilibrium with it [mol/s]; none for a solvent without vapour pressure."""
+    if vapour_pressure == 0.0:
+        return np.zeros(np.shape(gas_rate))
+    return solvent_loop.solvent_vapour_loss(gas_rate, 1.0, vapour_pressure, pressure)
+
+
 def fraction_needed(case, key: int, key_lean, factor, remaining, k_value):
     """Fraction of each solute the regenerator may leave in the solvent, (m, S); 1 where it need strip none.
 
@@ -220,7 +227,7 @@ class SolventLoop(SingleColumn):
         for name in ("lean_level", "regenerator_trays", "regenerator_diameter", "regenerator_height",
                      "regenerator_vapour", "live_steam", "heater_duty", "reboiler_duty", "cross_duty",
                      "cooler_duty", "cross_area", "cooler_area", "heater_area", "reboiler_area",
-                     "vapour_loss", "regenerator_fraction_of_flood"):
+                     "vapour_loss", "regenerator_fraction_of_flood", "steam", "cooling_water"):
             out[name] = np.full(n, np.nan)
         out["regenerator_ok"] = np.ones(n, bool)
         rows = []
@@ -303,7 +310,7 @@ class SolventLoop(SingleColumn):
         for name in ("live_steam", "heater_duty", "reboiler_duty", "cross_duty", "cooler_duty", "cross_area",
                      "cooler_area", "heater_area", "reboiler_area", "cooling_water", "steam"):
             out.setdefault(name, np.full(base.rate.shape[0], np.nan))[at] = heat[name][pick]
-        gas_loss = solvent_loop.solvent_vapour_loss(G, 1.0, data.vapour_pressure, case.pressure)
+        gas_loss = _vapour_loss(np.full(m, G), data.vapour_pressure, case.pressure)
         out["vapour_loss"][at] = (gas_loss + self._top_loss(data, V)) * case.liquid_molar_mass[agent]
         self._warn(data, out, at, agent, notes)
         items = [_retagged(item).take(pick) for item in designs.equipment.items]
@@ -315,7 +322,7 @@ class SolventLoop(SingleColumn):
         """Solvent carried off in the regenerator's overhead [mol/s] (Raoult); none from a reboiled one's."""
         if data.stripping != "steam":
             return np.zeros(np.shape(vapour))
-        return solvent_loop.solvent_vapour_loss(vapour, 1.0, data.vapour_pressure_hot, data.pressure)
+        return _vapour_loss(vapour, data.vapour_pressure_hot, data.pressure)
 
     def _column(self, data, column: SingleColumn, agent, liquid, vapour, trays):
         """The regenerator column priced at its least standard diameter: rich solvent down, vapour up."""

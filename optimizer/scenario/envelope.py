@@ -409,3 +409,5 @@ HEAT_COEFFICIENT = E("overall heat-transfer coefficient", "W/(m^2*K)", "W/(m^2*K
 LATENT_HEAT = E("latent heat of vaporization", "J/kg", "kJ/kg", 1.0, 1e5, usual=(100.0, 2500.0), example=300.0)
 LEAN_LEVEL = E("lean level K x_lean / y_out", "", "", 0.0, 1.0, low_open=True, high_open=True)
 LEAN_LEVELS = E("lean levels", "", "", 1, 200, integer=True)
+SOLVENT_VAPOUR_PRESSURE = E("vapour pressure of the solvent itself (0: none lost as vapour)", "Pa", "kPa", 0.0, 1e5,
+                            example=0.01)

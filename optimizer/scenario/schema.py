@@ -284,9 +284,9 @@ class Regenerator(_Table):
     u_cross: quantity(env.HEAT_COEFFICIENT) = defaults.U_CROSS      # [W/(m2 K)]
     u_cooler: quantity(env.HEAT_COEFFICIENT) = defaults.U_COOLER    # [W/(m2 K)]
     u_heater: quantity(env.HEAT_COEFFICIENT) = defaults.U_HEATER    # [W/(m2 K)]
-    vapour_pressure: Annotated[quantity(env.VAPOUR_PRESSURE, absolute=True), _described(
+    vapour_pressure: Annotated[quantity(env.SOLVENT_VAPOUR_PRESSURE, absolute=True), _described(
         "of the solvent at the absorber (its loss to the treated gas)")] = 0.0  # [Pa]
-    vapour_pressure_hot: Annotated[quantity(env.VAPOUR_PRESSURE, absolute=True), _described(
+    vapour_pressure_hot: Annotated[quantity(env.SOLVENT_VAPOUR_PRESSURE, absolute=True), _described(
         "of the solvent at the regenerator (its loss to the overhead)")] = 0.0  # [Pa]
     once_through: StrictBool = Field(False, description="true: the same solvent is also offered once through "
                                      "(bought fresh, spent solvent disposed of), competing in one ranking")
