@@ -359,6 +359,30 @@ def _ranking_columns(case, solute: str) -> list[layout.Column]:
             layout.Column("above best", "%")]
 
 
+def _loop_ranking(console: Console, case, d) -> None:
+    """The regenerated loop of each ranked design: regenerator, loadings, circulation, steam, exchanger areas."""
+    looped = [i for i in range(len(d)) if bool(d.loop_looped[i])]
+    if not looped:
+        return
+    _title(console, "Regenerated loops of the ranked designs")
+    rows = []
+    for i in looped:
+        lean = ", ".join(f"{_agent_text(case, int(d.agent[i]), s, float(d.lean_loading[i, s]))}"
+                         for s in range(len(case.solutes)))
+        rows.append(layout.Row([str(i + 1), f"{int(d.regenerator_trays[i])}", f"{d.regenerator_diameter[i]:.3f}",
+                                f"{d.regenerator_height[i]:.1f}", f"{d.liquid_mass_flow[i] * 3.6:,.1f}",
+                                f"{d.loop_steam[i] * 3.6:,.2f}",
+                                f"{d.cross_area[i]:,.0f}/{d.cooler_area[i]:,.0f}/{d.heater_area[i]:,.0f}"
+                                + (f"/{d.reboiler_area[i]:,.0f}" if d.reboiler_area[i] > 0 else ""), lean]))
+    _lines(console, [layout.Column("#"), layout.Column("regen. trays"), layout.Column("D", "m"),
+                     layout.Column("height", "m"), layout.Column("circulation", "t/h"),
+                     layout.Column("steam", "t/h"), layout.Column("areas", "m2"),
+                     layout.Column("lean solvent (" + ", ".join(case.solutes) + ")", left=True, wrap=True)], rows)
+    console.print("  areas: cross exchanger / lean cooler / rich heater (/ reboiler); steam: live plus heater and "
+                  "reboiler; the design sheet (evaluate --design ID) has the rich loadings and the loop balance",
+                  markup=False, highlight=False, style="dim", soft_wrap=True)
+
+
 def print_ranking(console: Console, result, *, verbose: bool = False) -> None:
     """Ranked alternatives, per-candidate best, near-optimal band per candidate; solver figures when verbose."""
     from towercost.report.records import controlling, listing_meaning
@@ -373,6 +397,8 @@ def print_ranking(console: Console, result, *, verbose: bool = False) -> None:
     columns = _ranking_columns(case, solute)
     _title(console, "Ranked designs")
     labels = set(_lines(console, columns, _ranking_rows(case, d, best, key, list(range(1, len(d) + 1)))))
+    if case.loop is not None:
+        _loop_ranking(console, case, d)
 
     each = "candidate and internals" if case.packings else "candidate"
     _title(console, f"Best design of each {each} (# is its rank in the full listing)")
