@@ -122,6 +122,8 @@ FIGURES: dict[str, tuple[str, str]] = {
     "loop_steam": ("kg/s", "the loop's steam: live steam plus heater and reboiler"),
     "loop_cooling": ("m3/s", "the loop's cooling water (lean cooler)"),
     "loop_looped": ("", "the design circulates its solvent through a designed regenerator"),
+    "regenerator_liquid_mass": ("kg/s", "solvent through the regenerator (0 without one)"),
+    "regenerator_vapour_mass": ("kg/s", "stripping vapour up the regenerator (0 without one)"),
 }
 
 #: Figures derived on demand from the equipment rows: name -> (unit, meaning).

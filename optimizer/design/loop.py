@@ -227,7 +227,8 @@ class SolventLoop(SingleColumn):
         for name in ("lean_level", "regenerator_trays", "regenerator_diameter", "regenerator_height",
                      "regenerator_vapour", "live_steam", "heater_duty", "reboiler_duty", "cross_duty",
                      "cooler_duty", "cross_area", "cooler_area", "heater_area", "reboiler_area",
-                     "vapour_loss", "regenerator_fraction_of_flood", "steam", "cooling_water"):
+                     "vapour_loss", "regenerator_fraction_of_flood", "steam", "cooling_water",
+                     "regenerator_liquid_mass", "regenerator_vapour_mass"):
             out[name] = np.full(n, np.nan)
         out["regenerator_ok"] = np.ones(n, bool)
         rows = []
@@ -259,7 +260,8 @@ class SolventLoop(SingleColumn):
         phi_a = kremser.fraction_remaining(A, N)
         need = fraction_needed(case, data.key, case.lean[agent, data.key], A, phi_a, K)
         lo, hi = data.trays_range
-        trays = np.arange(lo, hi + 1, dtype=float)
+        shared = self.loop.shared_trays
+        trays = np.arange(lo, hi + 1, dtype=float) if shared is None else np.array([float(shared)])
         stages = regenerator_stages(data, trays)
         vapour = least_vapour(L, need, stages, data.k_value)
         # the regenerator column at each count, priced as a stripper through the same internals and vessel
@@ -270,7 +272,7 @@ class SolventLoop(SingleColumn):
         heat = self._heat(data, agent, flat_l, flat_v)
         eco = case.economics
         # what the count of regenerator trays changes: its column, the vapour's steam, reboiler and solvent loss
-        varying = [*designs.equipment.items]
+        varying = [*designs.equipment.items] if shared is None else [*designs.equipment.items[2:]]
         if data.stripping == "reboiled":
             varying.append(price_item(REBOILER, heat["reboiler_area"], pressure_gauge=np.maximum(heat["pressure"], 0.0)))
         top_loss = self._top_loss(data, flat_v) * case.liquid_molar_mass[agent][0]
@@ -302,9 +304,12 @@ class SolventLoop(SingleColumn):
         out["build_up"][at] = lean * K / y_in
         out["lean_level"][at] = self.loop.level[agent]
         out["regenerator_trays"][at] = trays[best]
-        out["regenerator_diameter"][at] = designs.diameter[pick]
-        out["regenerator_height"][at] = designs.height[pick]
-        out["regenerator_fraction_of_flood"][at] = designs.fraction_of_flood[pick]
+        if shared is None:   # a shared regenerator's column is sized and priced by the site
+            out["regenerator_diameter"][at] = designs.diameter[pick]
+            out["regenerator_height"][at] = designs.height[pick]
+            out["regenerator_fraction_of_flood"][at] = designs.fraction_of_flood[pick]
+        out["regenerator_liquid_mass"][at] = L * case.liquid_molar_mass[agent]
+        out["regenerator_vapour_mass"][at] = V * data.vapour_molar_mass
         out["regenerator_vapour"][at] = V
         out["regenerator_ok"][at] = ~none
         for name in ("live_steam", "heater_duty", "reboiler_duty", "cross_duty", "cooler_duty", "cross_area",
@@ -314,6 +319,8 @@ class SolventLoop(SingleColumn):
         out["vapour_loss"][at] = (gas_loss + self._top_loss(data, V)) * case.liquid_molar_mass[agent]
         self._warn(data, out, at, agent, notes)
         items = [_retagged(item).take(pick) for item in designs.equipment.items]
+        if shared is not None:    # the shell and trays of the shared column: not this unit's (no cost here)
+            items[0] = items[1] = None
         items += self._exchanger_items(data, {k: v[pick] for k, v in heat.items()}, notes)
         return items, designs.electric_power[pick]
 
@@ -324,8 +331,9 @@ class SolventLoop(SingleColumn):
             return np.zeros(np.shape(vapour))
         return _vapour_loss(vapour, data.vapour_pressure_hot, data.pressure)
 
-    def _column(self, data, column: SingleColumn, agent, liquid, vapour, trays):
-        """The regenerator column priced at its least standard diameter: rich solvent down, vapour up."""
+    def _column(self, data, column: SingleColumn, agent, liquid, vapour, trays, diameter=None):
+        """The regenerator column priced at its least standard diameter (or ``diameter``): rich solvent down,
+        vapour up."""
         case = self.case
         rc = column.case
         loads = Loads(vapour * data.vapour_molar_mass, liquid * case.liquid_molar_mass[agent][0],
@@ -338,7 +346,7 @@ class SolventLoop(SingleColumn):
                        meets_spec=np.ones(n, bool), liquid_flow=liquid, gas_flow=vapour,
                        liquid_mass_flow=loads.liquid_mass_flow, gas_mass_flow=loads.gas_mass_flow)
         separation = Separation(np.zeros(n, int), trays, vapour, figures, loads)
-        return column.price(separation, np.full(n, np.nan), messages=False)
+        return column.price(separation, np.full(n, np.nan) if diameter is None else diameter, messages=False)
 
     def _heat(self, data, agent, liquid, vapour):
         """Duties, areas and utilities of the loop's heat exchange, per point (rich and lean: the circulation)."""
@@ -402,7 +410,7 @@ class SolventLoop(SingleColumn):
         """The loop's rows over all designs: no cost where a design has no loop."""
         case = self.case
         n = agent.shape[0]
-        merged = [_spread([(at, items[j]) for at, (items, _) in rows], n, variants)
+        merged = [_spread([(at, items[j]) for at, (items, _) in rows if items[j] is not None], n, variants)
                   for j, variants in enumerate(self._template())]
         electric = np.zeros(n)
         for at, (_, power) in rows:
@@ -415,6 +423,8 @@ class SolventLoop(SingleColumn):
                 (COOLING, cooling, eco.cooling_water))
         # the case-wide totals the limits and the site read (the absorber adds none for a loop candidate)
         looped = self.loop.looped[agent]
+        for name in ("regenerator_liquid_mass", "regenerator_vapour_mass"):   # a site sums them (0: no loop)
+            figures[name] = np.nan_to_num(figures[name], nan=0.0)
         totals = {"steam_rate": steam, "cooling_rate": cooling, "loop_steam": np.where(looped, steam, np.nan),
                   "loop_cooling": np.where(looped, cooling, np.nan)}
         return Extra(tuple(merged), electric, uses, {**figures, **{k: v for k, v in totals.items()},

@@ -72,6 +72,7 @@ class LoopData:
     looped: np.ndarray              # (n_agents,) bool
     regenerators: tuple             # per scenario candidate: RegeneratorData or None
     parents: tuple[str, ...]        # the scenario's candidate names
+    shared_trays: int | None = None  # a site's shared regenerator: its trays; the column is priced by the site
 
     def regenerator(self, agent: int) -> RegeneratorData:
         return self.regenerators[int(self.parent[agent])]

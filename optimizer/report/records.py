@@ -379,6 +379,11 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
     }
 
 
+def _finite_or_none(value) -> float | None:
+    value = float(value)
+    return value if math.isfinite(value) else None
+
+
 def _looped(d, i: int) -> bool:
     return "loop_looped" in d.figures and bool(d.loop_looped[i])
 
@@ -397,9 +402,11 @@ def loop_record(case, d, i: int) -> dict | None:
                  else "dilute Kremser (rich loading above the dilute threshold)",
         "regenerator": {
             "stripping": data.stripping, "temperature_K": data.temperature, "pressure_Pa": data.pressure,
-            "trays": int(d.regenerator_trays[i]), "diameter_m": float(d.regenerator_diameter[i]),
-            "height_m": float(d.regenerator_height[i]),
-            "fraction_of_flood": float(d.regenerator_fraction_of_flood[i]),
+            "trays": int(d.regenerator_trays[i]),
+            "shared_by_the_site": case.loop.shared_trays is not None,   # its column then sized in the site record
+            "diameter_m": _finite_or_none(d.regenerator_diameter[i]),
+            "height_m": _finite_or_none(d.regenerator_height[i]),
+            "fraction_of_flood": _finite_or_none(d.regenerator_fraction_of_flood[i]),
             "within_its_limits": bool(d.regenerator_ok[i]),
             "vapour_mol_s": float(d.regenerator_vapour[i]),
             "tray_efficiency": {s: float(data.efficiency[k]) for k, s in enumerate(case.solutes)},

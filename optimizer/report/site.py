@@ -16,7 +16,7 @@ def _portfolio_record(result, portfolio, rank: int) -> dict:
         record["unit"] = name
         units.append(record)
     return {"rank": rank, "annualized_cost_USD_per_yr": portfolio.annualized, "totals": portfolio.totals,
-            "units": units}
+            "units": units, "shared_regenerators": portfolio.regenerators}
 
 
 def site_record(result) -> dict:
@@ -67,9 +67,22 @@ def print_site(console: Console, result) -> None:
         table.add_row(escape(name), escape(space.case.agents[int(d.agent[0])]), str(int(d.trays[0])),
                       f"{d.ratio[0]:.4f}", f"{d.diameter[0]:.3f}", f"{d.installed[0] / 1e3:,.0f}",
                       f"{d.annualized[0] / 1e3:,.1f}")
-    table.add_row("[bold]site[/bold]", "", "", "", "", f"{sum(d.installed[0] for d in best.designs) / 1e3:,.0f}",
+    for column in best.regenerators:      # a shared regenerator column: one row of its own
+        table.add_row(escape(f"{column['group']}: shared regenerator"), "", str(column["trays"]), "",
+                      f"{column['diameter_m']:.3f}", f"{column['installed_USD'] / 1e3:,.0f}",
+                      f"{column['annualized_USD_per_yr'] / 1e3:,.1f}")
+    installed = sum(d.installed[0] for d in best.designs) + sum(c["installed_USD"] for c in best.regenerators)
+    table.add_row("[bold]site[/bold]", "", "", "", "", f"{installed / 1e3:,.0f}",
                   f"[bold]{best.annualized / 1e3:,.1f}[/bold]")
     console.print(table)
+    for column in best.regenerators:
+        state = "within its limits" if column["within_its_limits"] else "OUTSIDE ITS LIMITS (see its figures)"
+        console.print(f"  {escape(column['group'])}: one regenerator column for the group, {column['trays']} trays, "
+                      f"D {column['diameter_m']:.3f} m, {column['height_m']:.1f} m; carries "
+                      f"{column['liquid_kg_s'] * 3.6:,.1f} t/h of solvent and {column['vapour_kg_s'] * 3.6:,.2f} t/h "
+                      f"of vapour (capacity {column['capacity_liquid_kg_s'] * 3.6:,.1f} and "
+                      f"{column['capacity_vapour_kg_s'] * 3.6:,.2f} t/h), fraction of flood "
+                      f"{column['fraction_of_flood']:.3f}, {state}", highlight=False)
     if len(result.portfolios) > 1:
         runners = Table(title="Runners-up (site total)", title_justify="left", show_edge=False, header_style="bold")
         runners.add_column("#", justify="right")

@@ -178,10 +178,13 @@ def _loop_pairs(console: Console, case, d, i: int) -> None:
     pairs = [
         ("lean level K x_lean / y_out (key)", f"{d.lean_level[i]:.3g} ({case.solutes[data.key]})"),
         ("circulation", f"{d.liquid_mass_flow[i] * 3600 / 1000:,.2f} t/h ({d.rate[i] * KMOL_H:,.2f} kmol/h)"),
-        ("regenerator", f"{int(d.regenerator_trays[i])} real trays, D {d.regenerator_diameter[i]:.3f} m, "
-                        f"{d.regenerator_height[i]:.2f} m tangent to tangent, fraction of flood "
-                        f"{d.regenerator_fraction_of_flood[i]:.3f}, at {data.temperature - 273.15:.4g} degC and "
-                        f"{data.pressure / 1e5:.4g} bara{'' if d.regenerator_ok[i] else ' (OUTSIDE ITS LIMITS)'}"),
+        ("regenerator", (f"{int(d.regenerator_trays[i])} real trays, D {d.regenerator_diameter[i]:.3f} m, "
+                         f"{d.regenerator_height[i]:.2f} m tangent to tangent, fraction of flood "
+                         f"{d.regenerator_fraction_of_flood[i]:.3f}" if case.loop.shared_trays is None else
+                         f"{int(d.regenerator_trays[i])} real trays, shared by the site's units (its column is "
+                         "sized and priced in the site's record)")
+                        + f", at {data.temperature - 273.15:.4g} degC and {data.pressure / 1e5:.4g} bara"
+                        + ("" if d.regenerator_ok[i] else " (OUTSIDE ITS LIMITS)")),
         ("stripping vapour", f"{vapour}, {d.regenerator_vapour[i] * KMOL_H:,.2f} kmol/h"),
         ("steam: live / heater and reboiler", f"{d.live_steam[i] * 3600:,.0f} kg/h / "
                                               f"{(d.loop_steam[i] - d.live_steam[i]) * 3600:,.0f} kg/h"),

@@ -22,11 +22,11 @@ import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 
-from pydantic import Field, ValidationError, model_validator
+from pydantic import Field, StrictBool, ValidationError, model_validator
 
 from towercost.errors import ScenarioError
 from towercost.scenario import envelope as env
-from towercost.scenario.envelope import quantity
+from towercost.scenario.envelope import number, quantity
 from towercost.scenario.load import load_scenario, read_text
 from towercost.scenario.messages import one_line, relevance
 from towercost.scenario.schema import Name, Scenario, _Table
@@ -63,6 +63,19 @@ class SolventGroup(_Table):
 
     name: Name
     units: list[str] = Field(min_length=2)
+    # one regenerator column for the group's regenerated loops, sized for their summed circulation and vapour
+    shared_regenerator: StrictBool = False
+    regenerator_trays: number(env.TRAYS) | None = None   # real trays of the shared column
+
+    @model_validator(mode="after")
+    def _shared(self):
+        if self.shared_regenerator and self.regenerator_trays is None:
+            raise ValueError(f"[[solvent_group]] {self.name!r}: shared_regenerator = true needs regenerator_trays "
+                             "(real trays of the shared column)")
+        if self.regenerator_trays is not None and not self.shared_regenerator:
+            raise ValueError(f"[[solvent_group]] {self.name!r}: regenerator_trays applies with shared_regenerator "
+                             "= true only")
+        return self
 
 
 class Choice(_Table):
@@ -118,7 +131,9 @@ class SiteSpec:
 
 
 def _check_candidates(spec: SiteSpec) -> None:
-    agents = {name: [a.name for a in scenario.agents] for name, scenario in spec.units}
+    from towercost.design.loop_case import candidate_names
+
+    agents = {name: candidate_names(scenario) for name, scenario in spec.units}
     for choice in [c for e in spec.exclusive for c in e.choices] + list(spec.require):
         if choice.candidate not in agents[choice.unit]:
             raise ScenarioError(f"choice {choice.unit!r} / {choice.candidate!r}: unit {choice.unit!r} has no "
@@ -128,6 +143,12 @@ def _check_candidates(spec: SiteSpec) -> None:
         if not common:
             raise ScenarioError(f"[[solvent_group]] {group.name!r}: its units share no candidate by name, so no "
                                 "one solvent can serve them all")
+        if group.shared_regenerator:
+            scenarios = dict(spec.units)
+            for unit in group.units:
+                if not any(a.regenerator is not None for a in scenarios[unit].agents):
+                    raise ScenarioError(f"[[solvent_group]] {group.name!r}: shared_regenerator = true, but unit "
+                                        f"{unit!r} has no solvent with a [solvent.regenerator]")
 
 
 def site_from_units(name: str, units: list[tuple[str, Scenario]], *, shared: dict | None = None,

@@ -22,6 +22,7 @@ limits and rules they break together.
 
 from __future__ import annotations
 
+import dataclasses
 import time
 from dataclasses import dataclass, field
 
@@ -33,7 +34,7 @@ from towercost.design.reasons import check_case, infeasible_reason
 from towercost.design.space import Space, build_space
 from towercost.errors import InfeasibleSpec, ScenarioError
 from towercost.scenario.site import SiteSpec
-from towercost.select import model
+from towercost.select import model, shared_regenerator
 from towercost.select.reduction import undominated
 
 #: Shared limit -> (figure of a design it sums, unit of the figure, words).
@@ -52,6 +53,7 @@ class Portfolio:
     designs: list[Designs]                   # one design (length 1) per unit, in site order
     annualized: float                        # [USD/yr] in all
     totals: dict[str, float]                 # shared-limit name -> the choice's total use
+    regenerators: list[dict] = field(default_factory=list)   # shared regenerator columns taken, checked
 
 
 @dataclass
@@ -151,10 +153,41 @@ def _links(spec: SiteSpec, units: list[model.Unit], spaces: list[Space]) -> tupl
     return options, rows
 
 
-def _portfolio(spaces: list[Space], picks: list[int], limits: dict) -> Portfolio:
+def _portfolio(spaces: list[Space], picks: list[int], limits: dict, columns: dict | None = None,
+               taken=()) -> Portfolio:
+    """A joint choice re-evaluated exactly, with the shared regenerator columns it takes (option indices)."""
     designs = [space.designs(np.array([i])) for space, i in zip(spaces, picks)]
     totals = {name: float(sum(getattr(d, SHARED[name][0])[0] for d in designs)) for name in limits}
-    return Portfolio(designs, float(sum(d.annualized[0] for d in designs)), totals)
+    annualized = float(sum(d.annualized[0] for d in designs))
+    checked = []
+    for o in taken:
+        if columns and o in columns:
+            column, members = columns[o]
+            liquid = float(sum(designs[u].regenerator_liquid_mass[0] for u in members))
+            vapour = float(sum(designs[u].regenerator_vapour_mass[0] for u in members))
+            checked.append(shared_regenerator.check(spaces[members[0]], column, liquid, vapour))
+            annualized += column.annualized
+            if "capital_budget" in totals:
+                totals["capital_budget"] += column.installed
+    return Portfolio(designs, annualized, totals, checked)
+
+
+def _alone_columns(assembly, picks: list[int]) -> list[int]:
+    """For the stand-alone bests: per shared group, the cheapest column carrying their summed loads."""
+    taken = []
+    by_group: dict[str, list[int]] = {}
+    for o, (column, _) in assembly.columns.items():
+        by_group.setdefault(column.group, []).append(o)
+    for options in by_group.values():
+        members = assembly.columns[options[0]][1]
+        liquid = sum(float(assembly.spaces[u].usage["regenerator_liquid_mass"][picks[u]]) for u in members)
+        vapour = sum(float(assembly.spaces[u].usage["regenerator_vapour_mass"][picks[u]]) for u in members)
+        if vapour <= 0:
+            continue
+        fits = [o for o in options if assembly.columns[o][0].vapour >= vapour and assembly.columns[o][0].liquid >= liquid]
+        if fits:
+            taken.append(min(fits, key=lambda o: assembly.columns[o][0].annualized))
+    return taken
 
 
 @dataclass
@@ -168,11 +201,17 @@ class Assembly:
     rows: list[model.LinkRow]
     limits: dict[str, tuple[float, str, str]]    # name -> (bound, unit, words)
     evaluate_seconds: float
+    columns: dict[int, tuple] = field(default_factory=dict)   # option index -> (SharedColumn, member units)
 
 
-def _checked(name: str, scenario):
-    """One unit's case, with the checks every entry point makes (``reasons.check_case``); a refusal names the unit."""
+def _checked(name: str, scenario, shared_trays: int | None = None):
+    """One unit's case, with the checks every entry point makes (``reasons.check_case``); a refusal names the unit.
+
+    ``shared_trays``: the unit's loops send their rich solvent to a shared regenerator of that many trays.
+    """
     case = prepare(scenario)
+    if shared_trays is not None:
+        case = dataclasses.replace(case, loop=dataclasses.replace(case.loop, shared_trays=int(shared_trays)))
     try:
         check_case(case)
     except ScenarioError as exc:
@@ -186,12 +225,29 @@ def assemble(spec: SiteSpec, keep: int, listing: str = "variant") -> Assembly:
     limits = {name: (float(getattr(spec.shared, name)), SHARED[name][1], SHARED[name][2])
               for name in SHARED if getattr(spec.shared, name) is not None}
     resources = [SHARED[name][0] for name in limits]
-    spaces = [build_space(_checked(name, scenario), keep=tuple(resources)) for name, scenario in spec.units]
+    trays_of = {n: g.regenerator_trays for g in spec.solvent_groups if g.shared_regenerator for n in g.units}
+    loads = ["regenerator_liquid_mass", "regenerator_vapour_mass"]
+    spaces = [build_space(_checked(name, scenario, trays_of.get(name)),
+                          keep=tuple(resources + (loads if name in trays_of else [])))
+              for name, scenario in spec.units]
     evaluated = time.perf_counter() - start
-    units = [_unit(name, space, keep, resources, listing) for (name, _), space in zip(spec.units, spaces)]
+    # a unit on a shared regenerator keeps its designs undominated in the column's loads too (exact)
+    units = [_unit(name, space, keep, resources + (loads if name in trays_of else []), listing)
+             for (name, _), space in zip(spec.units, spaces)]
     shared = [model.SharedLimit(name, SHARED[name][0], bound, words) for name, (bound, _, words) in limits.items()]
     options, rows = _links(spec, units, spaces)
-    return Assembly(spaces, units, shared, options, rows, limits, evaluated)
+    columns = {}
+    index = {name: u for u, (name, _) in enumerate(spec.units)}
+    for group in spec.solvent_groups:
+        if not group.shared_regenerator:
+            continue
+        members = [index[n] for n in group.units]
+        offered = shared_regenerator.options(group, spaces, units, members)
+        more, link = shared_regenerator.rows(group, offered, len(options), units, spaces, members,
+                                             "capital_budget" in limits)
+        columns.update({len(options) + k: (c, members) for k, c in enumerate(offered)})
+        options, rows = options + more, rows + link
+    return Assembly(spaces, units, shared, options, rows, limits, evaluated, columns)
 
 
 def chosen_groups(assembly: Assembly, choice: tuple[int, ...]) -> list[np.ndarray]:
@@ -221,13 +277,15 @@ def optimize_site(spec: SiteSpec, *, top: int = 5, distinct: str = "trays") -> S
         selection = selection_model.best(top, distinct=groups_of)
     except model.Infeasible:
         raise InfeasibleSpec(_why_not(spec, spaces, limits)) from None
-    portfolios = [_portfolio(spaces, [int(u.label[d]) for u, d in zip(units, choice)], limits)
-                  for choice in selection.choices]
+    portfolios = [_portfolio(spaces, [int(u.label[d]) for u, d in zip(units, choice)], limits, site.columns,
+                             selection.options[k] if k < len(selection.options) else ())
+                  for k, choice in enumerate(selection.choices)]
     groups = chosen_groups(site, selection.choices[0])
     shadow = selection_model.fixed_choice_lp(groups)[1] if site.shared else {}
     cheaper = {name: selection_model.best_without(name) for name in limits}
     binding = {name: cheaper[name] < portfolios[0].annualized * (1 - 1e-12) for name in limits}
-    alone = _portfolio(spaces, [int(u.label[int(np.argmin(u.cost))]) for u in units], limits)
+    alone_picks = [int(u.label[int(np.argmin(u.cost))]) for u in units]
+    alone = _portfolio(spaces, alone_picks, limits, site.columns, _alone_columns(site, alone_picks))
     breaks = [limits[name][2] for name, (bound, _, _) in limits.items() if alone.totals[name] > bound]
     breaks += _rules_broken(spec, spaces, alone)
     done = time.perf_counter()
