@@ -35,8 +35,10 @@ from towercost.design.limits import limit_table
 TIE_KEY = ("annualized cost", "fewer trays", "lower rate", "smaller diameter", "candidate order", "internals order")
 
 #: Shared resources a space can keep a column of (figure names of ``Designs``).
-RESOURCES = ("installed", "electric_power", "steam_rate", "cooling_rate", "regenerator_liquid_mass",
-             "regenerator_vapour_mass")
+RESOURCES = ("installed", "electric_power", "steam_rate", "cooling_rate")
+
+#: The loads a shared regenerator sums (figures of a loop case's designs; 0 for a design without a loop).
+LOOP_LOADS = ("regenerator_liquid_mass", "regenerator_vapour_mass")
 
 
 @dataclass

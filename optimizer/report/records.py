@@ -379,6 +379,12 @@ def design_record(case, d, i: int = 0, *, ratio_text: str | None = None) -> dict
     }
 
 
+def _mole_ratio_check(case, d, i: int) -> list[dict]:
+    from towercost.design.loop import concentrated_check
+
+    return concentrated_check(case, d, i)
+
+
 def _finite_or_none(value) -> float | None:
     value = float(value)
     return value if math.isfinite(value) else None
@@ -422,6 +428,7 @@ def loop_record(case, d, i: int) -> dict | None:
         "steam_kg_s": {"live": float(d.live_steam[i]), "loop_total": float(d.loop_steam[i])},
         "cooling_water_m3_s": float(d.loop_cooling[i]),
         "solvent_vapour_loss_kg_s": float(d.vapour_loss[i]),
+        "mole_ratio_check": _mole_ratio_check(case, d, i),
         "solutes": {s: {"lean_mole_fraction": float(d.lean_loading[i, k]),
                         "rich_mole_fraction": float(d.rich_loading[i, k]),
                         "stripping_factor": float(d.stripping_factor[i, k]),

@@ -197,6 +197,17 @@ def _loop_pairs(console: Console, case, d, i: int) -> None:
     if data.stripping == "reboiled":
         pairs.append(("reboiler", f"{d.reboiler_duty[i] / 1000:,.0f} kW, {d.reboiler_area[i]:,.1f} m2"))
     pairs += [("solvent lost as vapour", f"{d.vapour_loss[i] * 3600:,.2f} kg/h"), ("basis", basis)]
+    from towercost.design.loop import concentrated_check
+
+    for row in concentrated_check(case, d, i):
+        s = case.solutes.index(row["solute"])
+        pairs.append((f"{row['solute']} on the mole-ratio basis",
+                      f"treated gas {concentration_text(case, s, row['averaged_factor_outlet'])} with the averaged "
+                      f"factor (Treybal Eq. 5.54) at {row['stages']:.2f} stages, "
+                      f"{concentration_text(case, s, row['stagewise_outlet'])} to "
+                      f"{concentration_text(case, s, row['stagewise_outlet_one_more'])} stage by stage on the curved "
+                      f"line at {row['whole_stages']:.0f} to {row['whole_stages'] + 1:.0f} stages, against {concentration_text(case, s, row['dilute_outlet'])} "
+                      "dilute (the basis of the search)"))
     _lines(console, [layout.Column("item", left=True), layout.Column("value", left=True, wrap=True)],
            [layout.Row(list(p)) for p in pairs])
     rows = []

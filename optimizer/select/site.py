@@ -31,7 +31,7 @@ import numpy as np
 from towercost.design.case import prepare
 from towercost.design.designs import Designs
 from towercost.design.reasons import check_case, infeasible_reason
-from towercost.design.space import Space, build_space
+from towercost.design.space import LOOP_LOADS, Space, build_space
 from towercost.errors import InfeasibleSpec, ScenarioError
 from towercost.scenario.site import SiteSpec
 from towercost.select import model, shared_regenerator
@@ -226,7 +226,7 @@ def assemble(spec: SiteSpec, keep: int, listing: str = "variant") -> Assembly:
               for name in SHARED if getattr(spec.shared, name) is not None}
     resources = [SHARED[name][0] for name in limits]
     trays_of = {n: g.regenerator_trays for g in spec.solvent_groups if g.shared_regenerator for n in g.units}
-    loads = ["regenerator_liquid_mass", "regenerator_vapour_mass"]
+    loads = list(LOOP_LOADS)
     spaces = [build_space(_checked(name, scenario, trays_of.get(name)),
                           keep=tuple(resources + (loads if name in trays_of else [])))
               for name, scenario in spec.units]
