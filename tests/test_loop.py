@@ -287,3 +287,15 @@ def test_a_rich_loading_past_the_dilute_threshold_is_re_solved_on_the_mole_ratio
     for r in rows:
         assert r["averaged_factor_outlet"] == pytest.approx(r["dilute_outlet"], rel=2e-2)
         assert r["stagewise_outlet_one_more"] <= r["dilute_outlet"] <= r["stagewise_outlet"]
+
+
+def test_the_studies_refuse_a_designed_regenerator_in_one_line():
+    from typer.testing import CliRunner
+
+    from towercost.cli import app
+
+    for command in (["sensitivity", str(DEMO)], ["uncertainty", str(DEMO), "--samples", "100"]):
+        result = CliRunner().invoke(app, command)
+        assert result.exit_code == 2, result.output
+        text = (result.stderr if hasattr(result, "stderr") else result.output).strip()
+        assert "regenerator" in text and len(text.splitlines()) == 1 and "Traceback" not in text

@@ -111,6 +111,9 @@ def monte_carlo(scenario: Scenario, chosen: Chosen | None = None, *, samples: in
     clock = {}
     t0 = time.perf_counter()
     case = prepare(scenario)
+    from towercost.study.sensitivity import refuse_loops
+
+    refuse_loops(case, "uncertainty")
     top = max(REGRET_DESIGNS, chosen.rank or 1) if chosen.agent is None else REGRET_DESIGNS
     result = optimize(scenario, top=top, method="scan")
     ranked = result.designs

@@ -137,6 +137,17 @@ def _best(case: Case, base: float) -> Best:
     return Best(d, (float(d.annualized[0]) - base) / abs(base))
 
 
+def refuse_loops(case: Case, study: str) -> None:
+    """The studies vary one-column designs only: a case with a designed regenerator is refused, saying so."""
+    if case.loop is not None:
+        from towercost.errors import ScenarioError
+
+        names = ", ".join(repr(n) for n, r in zip(case.loop.parents, case.loop.regenerators) if r is not None)
+        raise ScenarioError(f"[solvent.regenerator] of {names}: the {study} study does not cover a designed "
+                            "regenerator yet; study a copy of the scenario without that table (its steam and cooling "
+                            "water per kg circulated as regeneration_steam and regeneration_cooling)")
+
+
 def sensitivity(scenario: Scenario, *, change: float | None = None,
                 progress: Callable[[int, int], None] | None = None) -> Sensitivity:
     """Every input of the scenario changed down and up, one at a time (see the module notes)."""
@@ -144,6 +155,7 @@ def sensitivity(scenario: Scenario, *, change: float | None = None,
 
     scenario = trays_only(scenario)      # tray columns only: a packed bed's spreads are not modelled yet
     case = prepare(scenario)
+    refuse_loops(case, "sensitivity")
     nominal = best_design(case)
     design = Decisions.of(nominal)
     base = float(nominal.annualized[0])
