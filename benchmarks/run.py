@@ -10,6 +10,8 @@ The modules (each also runs alone and prints its own rows):
   bench_site       a four-unit site's joint choice; a batch of 100 scenarios with 1 and 2 workers
   bench_uncertainty  Monte Carlo of a fixed design (10**4 to 10**6 samples), margins, re-optimization per
                    sample, the sensitivity study, the two study commands
+  bench_loop       the regenerated loop at scale (6 solvents x 60 absorber trays x 40 lean levels, each
+                   absorber point with its 40-count regenerator minimum): space, model, scan, CLI ratio
 
 Figures are wall-clock seconds (time.perf_counter): best of several calls
 where a call is cheap, medians of alternating runs where two things are
@@ -30,12 +32,14 @@ sys.path.insert(0, str(HERE))
 
 import bench_evaluate  # noqa: E402
 import bench_kremser  # noqa: E402
+import bench_loop  # noqa: E402
 import bench_optimizer  # noqa: E402
 import bench_scaling  # noqa: E402
 import bench_site  # noqa: E402
 import bench_uncertainty  # noqa: E402
 
-MODULES = (bench_kremser, bench_evaluate, bench_optimizer, bench_scaling, bench_site, bench_uncertainty)
+MODULES = (bench_kremser, bench_evaluate, bench_optimizer, bench_scaling, bench_site, bench_uncertainty,
+           bench_loop)
 
 
 def cpu_model() -> str:
@@ -76,7 +80,8 @@ def _text(value) -> str:
     return f"{value:,}" if isinstance(value, int) else f"{value:.4g}"
 
 
-#: The speed targets (issue 7): (what, section, figure names, test on the value, the target in words).
+#: The speed targets (issue 7; the loop's: issue 10): (what, section, figure names, test on the value, the target
+#: in words).
 TARGETS = (
     ("demo optimize model / scan, whole processes", "optimizer",
      ("demo: towercost optimize model / scan, wall (median of pairs)",), lambda v: v <= 1.25, "<= 1.25 x"),
@@ -87,6 +92,12 @@ TARGETS = (
     ("evaluation throughput, 10^7", "scaling", ("10^7: evaluation throughput",), lambda v: v >= 2e6,
      ">= 2,000,000 designs/s"),
     ("peak memory, 10^7", "scaling", ("10^7: peak memory",), lambda v: v < 1024.0, "< 1024 MiB"),
+    ("loop optimize end to end, wall", "loop", ("loop: towercost optimize, wall (median)",), lambda v: v < 2.0,
+     "< 2 s"),
+    ("loop optimize model / scan, whole processes", "loop",
+     ("loop: towercost optimize model / scan, wall (median of pairs)",), lambda v: v <= 1.5, "<= 1.5 x"),
+    ("loop optimize model / scan, in process", "loop",
+     ("loop: optimize in-process, model / scan (median of pairs)",), lambda v: v <= 1.5, "<= 1.5 x"),
 )
 
 
@@ -121,7 +132,7 @@ def main() -> list[tuple[str, str, float, str]]:
     print(f"{'-' * 10} {'-' * width} {'-' * 12} {'-' * 9}")
     for section, name, value, unit in table:
         print(f"{section:10s} {name:{width}s} {_text(value):>12s} {unit}")
-    print(f"\n{'target (issue 7)':42s} {'measured':>12s} {'target':>24s} verdict")
+    print(f"\n{'target (issues 7, 10)':42s} {'measured':>12s} {'target':>24s} verdict")
     for what, value, target, verdict in verdicts(table):
         shown = "-" if value is None else _text(value)
         print(f"{what:42s} {shown:>12s} {target:>24s} {verdict}")
