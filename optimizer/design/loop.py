@@ -269,14 +269,16 @@ class SolventLoop(SingleColumn):
         flat_l = np.repeat(L, trays.size)
         flat_t = np.tile(trays, m)
         designs = self._column(data, column, agent, flat_l, flat_v, flat_t)
-        heat = self._heat(data, agent, flat_l, flat_v)
         eco = case.economics
-        # what the count of regenerator trays changes: its column, the vapour's steam, reboiler and solvent loss
+        # what the count of regenerator trays changes: its column, the vapour's steam (live, or the reboiler's
+        # steam and area) and the solvent lost overhead; the exchangers and the rich heater do not change
         varying = [*designs.equipment.items] if shared is None else [*designs.equipment.items[2:]]
+        vapour_steam, vapour_heat = self._vapour_steam(data, flat_v)
         if data.stripping == "reboiled":
-            varying.append(price_item(REBOILER, heat["reboiler_area"], pressure_gauge=np.maximum(heat["pressure"], 0.0)))
+            varying.append(price_item(REBOILER, vapour_heat["reboiler_area"],
+                                      pressure_gauge=max(max(case.pressure, data.pressure) - STANDARD_ATMOSPHERE, 0.0)))
         top_loss = self._top_loss(data, flat_v) * case.liquid_molar_mass[agent][0]
-        uses = Uses.stack([(ELECTRICITY, designs.electric_power, eco.electricity), (STEAM, heat["steam"], eco.steam),
+        uses = Uses.stack([(ELECTRICITY, designs.electric_power, eco.electricity), (STEAM, vapour_steam, eco.steam),
                            (VAPOUR_LOSS, top_loss, case.price[agent][0])])
         cost = annualize(Equipment(varying), uses, eco).annualized.reshape(m, trays.size)
         ok = designs.within_limits.reshape(m, trays.size) & (vapour > 0)
@@ -285,6 +287,7 @@ class SolventLoop(SingleColumn):
         best = np.where(none, np.argmin(cost, axis=1), best)
         pick = np.arange(m) * trays.size + best
         V = vapour[np.arange(m), best]
+        heat = self._heat(data, agent, L, V)              # the chosen designs' heat exchange, once each
         n_r = stages[best]                                      # (m, S)
         S = data.k_value * V[:, None] / L[:, None]
         state = solvent_loop.kremser_loop_lean_loading(A, N, y_in, K, np.maximum(S, 1e-300), n_r, 0.0,
@@ -314,14 +317,14 @@ class SolventLoop(SingleColumn):
         out["regenerator_ok"][at] = ~none
         for name in ("live_steam", "heater_duty", "reboiler_duty", "cross_duty", "cooler_duty", "cross_area",
                      "cooler_area", "heater_area", "reboiler_area", "cooling_water", "steam"):
-            out.setdefault(name, np.full(base.rate.shape[0], np.nan))[at] = heat[name][pick]
+            out.setdefault(name, np.full(base.rate.shape[0], np.nan))[at] = heat[name]
         gas_loss = _vapour_loss(np.full(m, G), data.vapour_pressure, case.pressure)
         out["vapour_loss"][at] = (gas_loss + self._top_loss(data, V)) * case.liquid_molar_mass[agent]
         self._warn(data, out, at, agent, notes)
         items = [_retagged(item).take(pick) for item in designs.equipment.items]
         if shared is not None:    # the shell and trays of the shared column: not this unit's (no cost here)
             items[0] = items[1] = None
-        items += self._exchanger_items(data, {k: v[pick] for k, v in heat.items()}, notes)
+        items += self._exchanger_items(data, heat, notes)
         return items, designs.electric_power[pick]
 
     @staticmethod
@@ -367,19 +370,28 @@ class SolventLoop(SingleColumn):
         heater_duty = capacity * (t_reg - cross.rich_out)
         heater_dt = exchangers.counterflow_temperature_difference(t_steam, t_steam, cross.rich_out, t_reg)
         heater_area = exchangers.exchanger_area(heater_duty, data.u_heater, heater_dt)
-        latent = exchangers.water_latent_heat(t_steam)
-        live = vapour * data.vapour_molar_mass if data.stripping == "steam" else np.zeros_like(vapour)
-        if data.stripping == "reboiled":
-            reboiler = exchangers.reboiler_duty(vapour, data.latent_heat * data.vapour_molar_mass)
-            reboiler_area = exchangers.exchanger_area(np.maximum(reboiler, 1e-9), data.u_heater, t_steam - t_reg)
-        else:
-            reboiler, reboiler_area = np.zeros_like(vapour), np.zeros_like(vapour)
-        steam = live + exchangers.steam_rate(heater_duty + reboiler, latent)
-        return dict(live_steam=live, heater_duty=heater_duty, reboiler_duty=reboiler, cross_duty=cross.duty,
+        vapour_steam, vapour_heat = self._vapour_steam(data, vapour)
+        steam = vapour_steam + exchangers.steam_rate(heater_duty, exchangers.water_latent_heat(t_steam))
+        return dict(live_steam=vapour_heat["live_steam"], heater_duty=heater_duty,
+                    reboiler_duty=vapour_heat["reboiler_duty"], cross_duty=cross.duty,
                     cooler_duty=cooler.duty, cross_area=cross_area, cooler_area=cooler_area,
-                    heater_area=heater_area, reboiler_area=reboiler_area, steam=steam,
+                    heater_area=heater_area, reboiler_area=vapour_heat["reboiler_area"], steam=steam,
                     cooling_water=cooler.water_rate / _water_density(),
                     pressure=np.full(vapour.shape, max(case.pressure, data.pressure) - STANDARD_ATMOSPHERE))
+
+    @staticmethod
+    def _vapour_steam(data, vapour):
+        """Steam the stripping vapour costs [kg/s]: live steam itself, or the reboiler's; with the reboiler's figures."""
+        vapour = np.asarray(vapour, dtype=float)
+        if data.stripping == "steam":
+            zero = np.zeros_like(vapour)
+            return vapour * data.vapour_molar_mass, dict(live_steam=vapour * data.vapour_molar_mass,
+                                                         reboiler_duty=zero, reboiler_area=zero)
+        t_steam = defaults.STEAM_TEMPERATURE
+        duty = exchangers.reboiler_duty(vapour, data.latent_heat * data.vapour_molar_mass)
+        area = exchangers.exchanger_area(np.maximum(duty, 1e-9), data.u_heater, t_steam - data.temperature)
+        steam = exchangers.steam_rate(duty, exchangers.water_latent_heat(t_steam))
+        return steam, dict(live_steam=np.zeros_like(vapour), reboiler_duty=duty, reboiler_area=area)
 
     def _exchanger_items(self, data, heat, notes):
         p = np.maximum(heat["pressure"], 0.0)

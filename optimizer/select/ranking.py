@@ -112,7 +112,7 @@ class Result:
         return frame
 
 
-def search_bounds(space: Space, i: int) -> list[tuple[str, str]]:
+def search_bounds(space: Space, i: int, regenerator: dict | None = None) -> list[tuple[str, str]]:
     """The bounds of the search alternative ``i`` lies on: (bound, how to widen it), in the user's words.
 
     * trays at either end of ``[column] trays`` (the low end only above 1 tray);
@@ -168,11 +168,24 @@ def search_bounds(space: Space, i: int) -> list[tuple[str, str]]:
                 out.append(("diameter", f"runs in a {space.diameter[i]:.3f} m shell, the widest tried for its rate; "
                                         + why))
     if case.loop is not None and case.loop.looped[agent]:
-        out += _loop_bounds(space, i, agent)
+        out += _loop_bounds(space, i, agent, regenerator)
     return out
 
 
-def _loop_bounds(space: Space, i: int, agent: int) -> list[tuple[str, str]]:
+def regenerator_trays(space: Space, index) -> dict[int, int]:
+    """The regenerator trays of the loop designs at ``index``, from one re-evaluation of them all."""
+    loop = space.case.loop
+    index = np.unique(np.asarray(index, dtype=int))
+    if loop is None or index.size == 0:
+        return {}
+    index = index[loop.looped[space.agent[index]]]
+    if index.size == 0:
+        return {}
+    trays = space.designs(index).regenerator_trays
+    return {int(i): int(t) for i, t in zip(index, trays)}
+
+
+def _loop_bounds(space: Space, i: int, agent: int, regenerator: dict | None = None) -> list[tuple[str, str]]:
     """A loop design's lean level or regenerator trays at an end of their search."""
     loop = space.case.loop
     family = np.flatnonzero(loop.looped & (loop.parent == loop.parent[agent]))
@@ -190,7 +203,7 @@ def _loop_bounds(space: Space, i: int, agent: int) -> list[tuple[str, str]]:
     if levels.size > 1 and level <= levels.min():
         out.append(("lean_low", f"runs at lean level {level:.3g}, the leanest searched ({span}): lower the first "
                                 "value to see whether a leaner solvent pays"))
-    trays = int(space.designs([i]).regenerator_trays[0])
+    trays = regenerator[i] if regenerator and i in regenerator else int(space.designs([i]).regenerator_trays[0])
     lo, hi = data.trays_range
     if trays >= hi:
         out.append(("regenerator_high", f"has a regenerator of {trays} trays, the most searched ([solvent.regenerator]"
@@ -206,12 +219,13 @@ def bound_flags(space: Space, order: list[int], best_of: dict[int, int]) -> tupl
     flags, seen = [], set()
     picks = [("the best design", order[0])] + [(f"the best design of {kind_label(space, a)}", i)
                                                for a, i in sorted(best_of.items())]
+    regenerator = regenerator_trays(space, [i for _, i in picks] + list(order))   # loops: one re-evaluation
     for label, i in picks:
         if i in seen:
             continue
         seen.add(i)
-        flags += [BoundFlag(label, bound, f"{label} {words}") for bound, words in search_bounds(space, i)]
-    return flags, [[bound for bound, _ in search_bounds(space, i)] for i in order]
+        flags += [BoundFlag(label, bound, f"{label} {words}") for bound, words in search_bounds(space, i, regenerator)]
+    return flags, [[bound for bound, _ in search_bounds(space, i, regenerator)] for i in order]
 
 
 def kind_label(space: Space, kind: int) -> str:
