@@ -179,6 +179,10 @@ def least_vapour(liquid, need, stages, k_value) -> np.ndarray:
     ``kremser.factor_for_fraction``), V = S L / K_r; the largest governs.
     """
     strips = need < 1.0                                           # (m, S)
+    some = np.flatnonzero(strips.any(axis=0))                     # only the solutes some design must strip
+    if some.size == 0:
+        return np.zeros((need.shape[0], stages.shape[0]))
+    strips, need, stages, k_value = strips[:, some], need[:, some], stages[:, some], np.asarray(k_value)[some]
     fraction = np.where(strips, need, 0.5)
     factor = kremser.factor_for_fraction(np.maximum(fraction[:, None, :], 1e-300), stages[None, :, :], strict=False)
     return np.max(np.where(strips[:, None, :], factor * liquid[:, None, None] / k_value, 0.0), axis=-1)
@@ -198,6 +202,11 @@ class SolventLoop(SingleColumn):
                 data = self.loop.regenerator(agent)
                 self.regenerators[parent] = (data, SingleColumn(regenerator_case(case, data, agent)))
         self._variants = None
+        #: per candidate, the one it counts under in the listings: the first lean level of its solvent's loop
+        self.representative = np.arange(len(case.agents))
+        for agent in np.flatnonzero(self.loop.looped):
+            same = np.flatnonzero(self.loop.looped & (self.loop.parent == self.loop.parent[agent]))
+            self.representative[agent] = same[0]
 
     def packed_rates(self, agents):
         """Packed beds for the candidates without a loop (a loop's absorber is a tray column here)."""
@@ -500,3 +509,11 @@ def concentrated_check(case, d, i: int) -> list[dict]:
                     "stagewise_outlet_one_more": float(concentrated.mole_fraction(above.gas_out)),
                     "spec": float(case.target[s])})
     return out
+
+
+def candidate_name(case, agent: int) -> str:
+    """The name a listing gives candidate ``agent``: a loop's solvent as "wash oil, regenerated", else its own."""
+    loop = case.loop
+    if loop is not None and loop.looped[agent]:
+        return f"{loop.parents[int(loop.parent[agent])]}, regenerated"
+    return case.agents[agent]

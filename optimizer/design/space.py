@@ -85,13 +85,21 @@ class Space:
         return np.maximum(self.internals.astype(np.int64) - FIRST_PACKING + 1, 0)
 
     @property
+    def candidate(self) -> np.ndarray:
+        """The candidate each alternative counts under in the listings: its agent, or for a regenerated loop the
+        first lean level of its solvent (every lean level of one solvent is one candidate there)."""
+        representative = getattr(self.flowsheet, "representative", None)
+        agent = self.agent.astype(np.int64)
+        return agent if representative is None else representative[agent]
+
+    @property
     def kind(self) -> np.ndarray:
         """The candidate and internals family of each alternative, as one integer (the candidate alone without packings).
 
         Each kind's best design is reported ("the best of each candidate", and
         of each of its internals where the case offers packings).
         """
-        return self.agent.astype(np.int64) * (1 + len(self.case.packings)) + self.family
+        return self.candidate * (1 + len(self.case.packings)) + self.family
 
     def kind_of(self, kind: int) -> tuple[int, int]:
         """(candidate index, internals family) of a ``kind``."""

@@ -18,7 +18,7 @@ import numpy as np
 from towercost.design import cascade, packed
 from towercost.design.case import Case, agent_index, prepare
 from towercost.design.column import MAX_WIDER, SAME_RATE, SingleColumn
-from towercost.design.loop import flowsheet_for
+from towercost.design.loop import candidate_name, flowsheet_for
 from towercost.design.limits import RATIO_TOLERANCE, SPEC_TOLERANCE
 from towercost.models import hydraulics
 from towercost.design.designs import Designs
@@ -231,7 +231,7 @@ def bound_flags(space: Space, order: list[int], best_of: dict[int, int]) -> tupl
 def kind_label(space: Space, kind: int) -> str:
     """'candidate' in quotes, with its internals where the case has packings."""
     agent, family = space.kind_of(kind)
-    name = repr(space.case.agents[agent])
+    name = repr(candidate_name(space.case, agent))
     if not space.case.packings:
         return name
     return f"{name} with {internals_word(space.case, family)}"
@@ -276,7 +276,7 @@ def near_optimal_band(space: Space, best_cost: float, margin: float) -> Band:
         mine = inside & (space.kind == kind)
         a, family = space.kind_of(kind)
         by_agent.append(BandRange(
-            agent=space.case.agents[a], count=int(mine.sum()),
+            agent=candidate_name(space.case, a), count=int(mine.sum()),
             trays=(int(space.trays[mine].min()), int(space.trays[mine].max())),
             ratio=(float(ratio[mine].min()), float(ratio[mine].max())),
             diameter=(float(space.diameter[mine].min()), float(space.diameter[mine].max())),
@@ -394,13 +394,15 @@ def optimize(scenario: Scenario, *, top: int = 10, method: str = "model", distin
     per_agent = space.designs([best_of[a] for a in agents_with])
     unmet = {}
     have = {space.kind_of(k)[0] for k in best_of}
-    for a, name in enumerate(case.agents):
-        if a not in have:
-            unmet[name] = infeasible_reason(build_space(case, agents=[a]))
+    representative = getattr(space.flowsheet, "representative", np.arange(len(case.agents)))
+    for a in np.unique(representative):
+        if int(a) not in have:
+            members = np.flatnonzero(representative == a)   # a loop: every lean level of the solvent
+            unmet[candidate_name(case, int(a))] = infeasible_reason(build_space(case, agents=members))
     for kind in np.unique(space.kind):          # a candidate with designs, but none with some internals
         agent, family = space.kind_of(kind)
         if int(kind) not in best_of and agent in have:
-            unmet[f"{case.agents[agent]} with {internals_word(case, family)}"] = kind_reason(space, int(kind))
+            unmet[f"{candidate_name(case, agent)} with {internals_word(case, family)}"] = kind_reason(space, int(kind))
     flags, ranked_bounds = bound_flags(space, order, best_of)
     reported = space.designs(np.unique(np.array(order + [best_of[a] for a in agents_with])))   # one set of messages
     warnings = list(dict.fromkeys([f.message for f in flags] + reported.warnings
