@@ -71,7 +71,7 @@ ORIGINAL_K = "toluene = 0.12              # invented K = y/x at column condition
 
 BAD = {
     "negative flow": ([('flow = "900 kmol/h"', 'flow = "-900 kmol/h"')],
-                      ["[feed] flow", "'-900 kmol/h'", "above 0"]),
+                      ["[feed] flow", "'-900 kmol/h'", "at least 0.001 kmol/h"]),
     "negative bare flow": ([('flow = "900 kmol/h"', "flow = -250.0")], ["[feed] flow", "-250.0"]),
     "unknown unit": ([('flow = "900 kmol/h"', 'flow = "5 kmol/hx"')],
                      ["[feed] flow", "unknown unit", "'5 kmol/hx'"]),

@@ -262,7 +262,8 @@ BASIS_TEMPERATURE = E("reference temperature", "K", "degC", -273.15, 100.0, low_
 COLUMN_PRESSURE = E("absolute pressure", "Pa", "bara", 0.01, 1000.0, usual=(0.1, 150.0), example=1.2)
 VAPOUR_PRESSURE = E("vapour pressure", "Pa", "kPa", 0.0, 1e5, low_open=True, example=5.0)
 ATMOSPHERE = E("atmospheric pressure", "Pa", "kPa", 50.0, 110.0, usual=(70.0, 105.0), example=101.325)
-MOLAR_FLOW = E("feed flow (molar, mass or volume)", "mol/s", "kmol/h", 0.0, 1e7, low_open=True,
+# the least flow accepted: 1 mol/h, far below any column, above the underflow of the packed-bed relations
+MOLAR_FLOW = E("feed flow (molar, mass or volume)", "mol/s", "kmol/h", 0.001, 1e7,
                usual=(1.0, 1e5), example=900.0)
 MOLAR_MASS = E("molar mass", "kg/mol", "g/mol", 1.0, 1e5, usual=(2.0, 1000.0), example=29.0)
 DENSITY = E("liquid density", "kg/m^3", "kg/m3", 50.0, 25000.0, usual=(500.0, 2000.0), example=1000.0)
