@@ -307,7 +307,8 @@ class SolventLoop(SingleColumn):
         figures["outlet"][at] = outlet
         figures["agent_outlet"] = figures["agent_outlet"].copy()
         figures["agent_outlet"][at] = rich
-        overhead = L[:, None] * (rich - lean) / np.where(V > 0, V, np.nan)[:, None]
+        with np.errstate(divide="ignore", invalid="ignore"):   # no vapour: no overhead
+            overhead = np.where(V[:, None] > 0, L[:, None] * (rich - lean) / V[:, None], 0.0)
         out["lean_loading"][at], out["rich_loading"][at] = lean, rich
         out["stripping_factor"][at] = S
         out["regenerator_overhead"][at] = overhead
@@ -507,7 +508,7 @@ def concentrated_check(case, d, i: int) -> list[dict]:
                     "whole_stages": whole,
                     "stagewise_outlet": float(concentrated.mole_fraction(stagewise.gas_out)),
                     "stagewise_outlet_one_more": float(concentrated.mole_fraction(above.gas_out)),
-                    "spec": float(case.target[s])})
+                    "spec_mole_fraction": float(case.target[s]) if np.isfinite(case.target[s]) else None})
     return out
 
 
