@@ -92,6 +92,10 @@ def limit_table(case, d) -> list[Limit]:
     for name, what, values, bound, unit in optional:
         if bound is not None and np.isfinite(bound):
             table.append(Limit(name, f"{what} at most {bound:.4g} {unit}".strip(), values, float(bound) * slack, unit))
+    if getattr(case, "loop", None) is not None:   # a loop design's regenerator column meets its own limits
+        looped = d.loop_looped.astype(bool)
+        table.append(Limit("regenerator", "regenerator within its limits (flood, operating range, height, diameter)",
+                           np.where(looped, np.where(d.regenerator_ok, -1.0, 1.0), -np.inf), 0.0))   # met: -1, broken: 1
     if case.packings and case.shell_max_trays is not None:
         # a packed bed in an existing shell: no taller than the shell, the height its most trays would take
         shell = float(hydraulics.column_height(case.shell_max_trays, case.tray_spacing))

@@ -216,8 +216,8 @@ class SolventLoop(SingleColumn):
     # ----------------------------------------------------------------- the loop per design
 
     def separate(self, agent, trays, rate, internals=None) -> Separation:
+        """The one-column separation, then each loop design's loadings, regenerator and heat exchange (``_loop``)."""
         base = super().separate(agent, trays, rate, internals)
-        n = base.rate.shape[0]
         figures = dict(base.figures) if not isinstance(base.figures, Figures) else {k: base.figures[k]
                                                                                   for k in base.figures}
         notes: list[str] = []
@@ -265,7 +265,7 @@ class SolventLoop(SingleColumn):
         N = figures["stages"][at]
         K = case.k_value[agent]
         y_in = case.feed_in
-        m, n_s = L.shape[0], y_in.shape[0]
+        m = L.shape[0]
         phi_a = kremser.fraction_remaining(A, N)
         need = fraction_needed(case, data.key, case.lean[agent, data.key], A, phi_a, K)
         lo, hi = data.trays_range
@@ -290,7 +290,9 @@ class SolventLoop(SingleColumn):
         uses = Uses.stack([(ELECTRICITY, designs.electric_power, eco.electricity), (STEAM, vapour_steam, eco.steam),
                            (VAPOUR_LOSS, top_loss, case.price[agent][0])])
         cost = annualize(Equipment(varying), uses, eco).annualized.reshape(m, trays.size)
-        ok = designs.within_limits.reshape(m, trays.size) & (vapour > 0)
+        ok = vapour > 0
+        if shared is None:   # a shared column's limits are the site's to check, at the summed loads
+            ok = ok & designs.within_limits.reshape(m, trays.size)
         best = np.argmin(np.where(ok, cost, np.inf), axis=1)
         none = ~ok[np.arange(m), best]
         best = np.where(none, np.argmin(cost, axis=1), best)
