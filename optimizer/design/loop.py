@@ -46,12 +46,11 @@ import functools
 
 import numpy as np
 
+from towercost.design import cascade
 from towercost.design.column import Extra, Separation, SingleColumn
 from towercost.design.costlines import (COOLING, ELECTRICITY, STEAM, Equipment, ItemCost, ItemSpec,
                                         UseSpec, Uses, annualize, price_item)
-from towercost.design.designs import Figures
 from towercost.design.internals import Loads
-from towercost.design.limits import SPEC_TOLERANCE
 from towercost.design.loop_case import COOLER_APPROACH
 from towercost.design.service import service_for
 from towercost.models import defaults, exchangers, kremser, solvent_loop
@@ -218,8 +217,7 @@ class SolventLoop(SingleColumn):
     def separate(self, agent, trays, rate, internals=None) -> Separation:
         """The one-column separation, then each loop design's loadings, regenerator and heat exchange (``_loop``)."""
         base = super().separate(agent, trays, rate, internals)
-        figures = dict(base.figures) if not isinstance(base.figures, Figures) else {k: base.figures[k]
-                                                                                  for k in base.figures}
+        figures = dict(base.figures)
         notes: list[str] = []
         loop_fig, rows = self._loop(base, figures, notes)
         extra = self._extra(base.agent, rows, loop_fig, notes)
@@ -249,7 +247,7 @@ class SolventLoop(SingleColumn):
             rows.append((at, self._regenerate(data, column, base, figures, at, out, notes)))
         if looped.any():
             outlet = figures["outlet"]
-            figures["meets_spec"] = np.all(outlet <= case.target * (1 + SPEC_TOLERANCE), axis=-1)
+            figures["meets_spec"] = cascade.meets_spec(case, outlet)
             with np.errstate(divide="ignore", invalid="ignore"):
                 share = np.where(np.isfinite(case.target), outlet / case.target, 0.0)
             figures["controlling"] = np.argmax(share, axis=-1)

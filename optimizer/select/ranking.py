@@ -17,7 +17,7 @@ import numpy as np
 
 from towercost.design import cascade, packed
 from towercost.design.case import Case, agent_index, prepare
-from towercost.design.column import MAX_WIDER, SAME_RATE, SingleColumn
+from towercost.design.column import MAX_WIDER, SAME_RATE
 from towercost.design.loop import candidate_name, flowsheet_for
 from towercost.design.limits import RATIO_TOLERANCE, SPEC_TOLERANCE
 from towercost.models import hydraulics

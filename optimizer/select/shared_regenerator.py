@@ -89,8 +89,11 @@ def options(group, spaces, units, members: list[int]) -> list[SharedColumn]:
     out = []
     eco = space.case.economics
     for size in np.unique(least):
-        fits = grid[least <= size]
-        cap = float(fits.max())
+        below = least <= size         # the capacity: the largest load with every lighter one fitting too
+        first_over = int(np.argmin(below)) if not below.all() else grid.size
+        if first_over == 0:
+            continue
+        cap = float(grid[first_over - 1])
         at = _price(space, np.array([ratio * cap]), np.array([cap]), np.array([size]))
         items = at.equipment.items[:2]          # shell and trays; each unit keeps its own pumps
         annual = annualize(Equipment(items), Uses.stack([(ELECTRICITY, np.zeros(1), eco.electricity)]), eco)
