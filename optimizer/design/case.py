@@ -170,21 +170,21 @@ def _k_values(scenario: Scenario, notes: list[str]) -> np.ndarray:
         liquid_m = agent.molar_mass if absorb else feed.molar_mass
         liquid_rho = agent.density if absorb else feed.density
         for s, solute in enumerate(solutes):
-            source = agent.k[solute]
-            if isinstance(source, float):
-                table[a, s] = source
-            elif hasattr(source, "vapour_pressure"):
-                table[a, s] = equilibrium.k_from_vapour_pressure(
-                    source.vapour_pressure, feed.pressure, source.activity_coefficient
-                )
-            else:
-                table[a, s] = equilibrium.k_at_conditions(
-                    source.henry, source.scale, source.temperature, source.slope,
-                    feed.temperature, feed.pressure,
-                    liquid_molar_density=liquid_rho / liquid_m, liquid_molar_mass=liquid_m,
-                    warnings=notes,
-                )
+            table[a, s] = k_from_source(agent.k[solute], feed.temperature, feed.pressure, liquid_m, liquid_rho, notes)
     return table
+
+
+def k_from_source(source, temperature, pressure, liquid_molar_mass, liquid_density, notes) -> float:
+    """K = y/x at (T, P) from one scenario K entry: a number, vapour-pressure data, or Henry's-law data."""
+    if isinstance(source, float):
+        return source
+    if hasattr(source, "vapour_pressure"):
+        return float(equilibrium.k_from_vapour_pressure(source.vapour_pressure, pressure,
+                                                        source.activity_coefficient))
+    return float(equilibrium.k_at_conditions(
+        source.henry, source.scale, source.temperature, source.slope, temperature, pressure,
+        liquid_molar_density=liquid_density / liquid_molar_mass, liquid_molar_mass=liquid_molar_mass,
+        warnings=notes))
 
 
 def _targets(scenario: Scenario) -> np.ndarray:

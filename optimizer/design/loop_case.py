@@ -28,7 +28,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from towercost.errors import ScenarioError
-from towercost.models import efficiency, equilibrium
+from towercost.models import efficiency
 from towercost.models.properties import ideal_gas_density
 
 #: Least temperature difference kept between the lean solvent and the cooling water [K]: common practice.
@@ -99,19 +99,22 @@ def once_through_name(name: str) -> str:
     return f"{name}, once through"
 
 
-def candidate_names(scenario) -> list[str]:
-    """The case's candidate names (each lean level and once-through service its own), without preparing the case."""
-    names = []
-    for agent in scenario.agents:
+def _expanded(scenario):
+    """Each candidate of the case: (scenario candidate index, name, lean level or NaN, looped, once through)."""
+    for a, agent in enumerate(scenario.agents):
         reg = agent.regenerator
         if reg is None:
-            names.append(agent.name)
+            yield a, agent.name, np.nan, False, False
             continue
-        names += [loop_name(agent.name, level) for level in lean_levels(reg.lean_range[0], reg.lean_range[1],
-                                                                         reg.lean_levels)]
+        for level in lean_levels(reg.lean_range[0], reg.lean_range[1], reg.lean_levels):
+            yield a, loop_name(agent.name, level), float(level), True, False
         if reg.once_through:
-            names.append(once_through_name(agent.name))
-    return names
+            yield a, once_through_name(agent.name), np.nan, False, True
+
+
+def candidate_names(scenario) -> list[str]:
+    """The case's candidate names (each lean level and once-through service its own), without preparing the case."""
+    return [name for _, name, _, _, _ in _expanded(scenario)]
 
 
 def lean_levels(low: float, high: float, count: int) -> np.ndarray:
@@ -121,30 +124,18 @@ def lean_levels(low: float, high: float, count: int) -> np.ndarray:
 
 def _regenerator_k(scenario, agent, reg, notes) -> np.ndarray:
     """K at the regenerator per solute: given, or the absorber's Henry's-law data moved to its T and P."""
-    word = scenario.agent_word
+    from towercost.design.case import k_from_source
+
     out = []
     for solute in scenario.solutes:
         source = reg.k.get(solute)
         if source is None:
             source = agent.k[solute]
             if isinstance(source, float) or hasattr(source, "vapour_pressure"):
-                raise ScenarioError(f"[{word}.regenerator] {agent.name!r}: no K for {solute!r} at the regenerator; "
-                                    f"give k.{solute} there (a K or vapour pressure at the regenerator's "
+                raise ScenarioError(f"[{scenario.agent_word}.regenerator] {agent.name!r}: no K for {solute!r} at the "
+                                    f"regenerator; give k.{solute} there (a K or vapour pressure at the regenerator's "
                                     "temperature), or Henry's-law data with a slope in the absorber's k table")
-            out.append(float(equilibrium.k_at_conditions(
-                source.henry, source.scale, source.temperature, source.slope, reg.temperature, reg.pressure,
-                liquid_molar_density=agent.density / agent.molar_mass, liquid_molar_mass=agent.molar_mass,
-                warnings=notes)))
-        elif isinstance(source, float):
-            out.append(source)
-        elif hasattr(source, "vapour_pressure"):
-            out.append(float(equilibrium.k_from_vapour_pressure(source.vapour_pressure, reg.pressure,
-                                                                source.activity_coefficient)))
-        else:
-            out.append(float(equilibrium.k_at_conditions(
-                source.henry, source.scale, source.temperature, source.slope, reg.temperature, reg.pressure,
-                liquid_molar_density=agent.density / agent.molar_mass, liquid_molar_mass=agent.molar_mass,
-                warnings=notes)))
+        out.append(k_from_source(source, reg.temperature, reg.pressure, agent.molar_mass, agent.density, notes))
     return np.array(out)
 
 
@@ -199,14 +190,10 @@ def expand_loops(case, scenario, notes: list[str]):
                             f"lean solvent to the absorber temperature on cooling water supplied at "
                             f"{defaults.COOLING_WATER_IN - 273.15:.4g} degC; allowed from {coldest - 273.15:.4g} degC "
                             "(a refrigerated absorber is outside this flowsheet)")
-    rows, names, levels, looped, regenerated = [], [], [], [], []
     regenerators = []
     for a, agent in enumerate(agents):
-        reg = agent.regenerator
-        if reg is None:
+        if agent.regenerator is None:
             regenerators.append(None)
-            rows.append(a), names.append(agent.name), levels.append(np.nan), looped.append(False)
-            regenerated.append(bool(case.regenerated[a]))
             continue
         data = _regenerator_data(scenario, case, a, agent, notes)
         if data.temperature - case.temperature <= data.approach:
@@ -217,12 +204,9 @@ def expand_loops(case, scenario, notes: list[str]):
             raise ScenarioError(f"[solvent.regenerator] {agent.name!r} temperature {data.temperature - 273.15:.4g} degC: "
                                 f"must be below the heating steam's {defaults.STEAM_TEMPERATURE - 273.15:.4g} degC")
         regenerators.append(data)
-        for level in lean_levels(reg.lean_range[0], reg.lean_range[1], reg.lean_levels):
-            rows.append(a), names.append(loop_name(agent.name, level)), levels.append(float(level))
-            looped.append(True), regenerated.append(True)
-        if reg.once_through:
-            rows.append(a), names.append(once_through_name(agent.name)), levels.append(np.nan)
-            looped.append(False), regenerated.append(False)
+    rows, names, levels, looped, once_through = zip(*_expanded(scenario))
+    regenerated = [bool(lp) or (not once and bool(case.regenerated[r]))
+                   for r, lp, once in zip(rows, looped, once_through)]
     rows = np.array(rows)
     levels = np.array(levels)
     looped = np.array(looped)
